@@ -1,0 +1,8 @@
+"""plaforge: truth tables to jointly minimized PLA covers, k-LUT networks and Amaranth modules, with proof."""
+
+from .cube import Cover, Cube
+from .errors import CheckFailed, PlaforgeError, SpecError, TooWide
+from .table import DEFAULT_ENUM_LIMIT, Bus, Table
+
+__all__ = ["Cube", "Cover", "Table", "Bus", "DEFAULT_ENUM_LIMIT", "PlaforgeError", "SpecError", "CheckFailed", "TooWide"]
+__version__ = "0.1.0"

@@ -1,0 +1,23 @@
+"""``plaforge minimize``: a jointly minimized two-level cover in PLA format."""
+
+from __future__ import annotations
+
+import click
+
+from . import cli, not_built
+
+
+@cli.command("minimize")
+@click.argument("spec", type=click.Path(dir_okay=False))
+@click.option("-o", "--output", "out", type=click.Path(dir_okay=False), help="Write the PLA cover here.")
+@click.option("--exact", is_flag=True, help="Prove a minimum cover (CP-SAT) instead of the fast heuristic.")
+@click.option("--time-limit", type=click.FloatRange(min=0.1), default=60.0, show_default=True,
+              help="Seconds the exact solver may spend; past it the best cover and lower bound are reported.")
+@click.option("--cost", type=click.Choice(["shared", "per-output"]), default="shared", show_default=True,
+              help="shared: count distinct product terms; per-output: count terms per output (no sharing).")
+@click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else.")
+def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, cost: str, phase: bool,
+                 as_json: bool) -> None:
+    """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
+    not_built("minimization")

@@ -1,0 +1,320 @@
+"""Cubes and covers: the vocabulary every part of plaforge shares.
+
+Vocabulary
+----------
+point
+    An assignment of 0/1 to the n inputs, encoded as an integer whose bit ``i`` is the value of input ``i``.
+cube (product term)
+    A set of points given by two integer bitmasks over the inputs: ``care`` (bit ``i`` set: the cube tests input
+    ``i``) and ``value`` (for tested inputs, the value required; ``value & ~care == 0``). Point ``p`` lies in the cube
+    when ``p & care == value``. A cube testing ``k`` inputs holds ``2**(n-k)`` points and costs ``k`` literals.
+    It also carries ``outputs``, a bitmask of the outputs it feeds (bit ``j``: output ``j``), so a list of cubes is a
+    multi-output cover with product terms shared between outputs.
+cover
+    A list of cubes whose union, per output, realizes that output: output ``j`` is the OR of the cubes whose
+    ``outputs`` has bit ``j`` (inverted when the cover records ``j`` as realized in complement, see ``inverted``).
+
+In PLA text a cube is written with the leftmost column as input 0::
+
+    care=0b101, value=0b001 over 3 inputs  ->  "1-0"
+
+Everything is an int operation, so width is unbounded (64, 128 or more inputs cost the same code path).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Iterator, Sequence
+from dataclasses import dataclass, field, replace
+
+__all__ = ["Cube", "Cover", "complement", "cubes_intersect", "cube_list_contains", "drop_inputs"]
+
+
+@dataclass(frozen=True, slots=True, order=True)
+class Cube:
+    """One product term: ``care``/``value`` input masks and the ``outputs`` it feeds.
+
+    >>> c = Cube.parse("1-0")
+    >>> c
+    Cube(care=0b101, value=0b1, outputs=0b1)
+    >>> c.contains_point(0b001), c.contains_point(0b011), c.contains_point(0b100)
+    (True, True, False)
+    """
+
+    care: int
+    value: int
+    outputs: int = 1
+
+    def __post_init__(self) -> None:
+        if not isinstance(self.care, int) or not isinstance(self.value, int) or not isinstance(self.outputs, int):
+            raise TypeError(f"Cube masks must be ints, not {self.care!r}, {self.value!r}, {self.outputs!r}")
+        if self.care < 0 or self.value < 0 or self.outputs < 0:
+            raise ValueError(f"Cube masks must be non-negative: {self.care!r}, {self.value!r}, {self.outputs!r}")
+        if self.value & ~self.care:
+            raise ValueError(f"Cube value {self.value:#b} sets bits outside care {self.care:#b}")
+
+    def __repr__(self) -> str:
+        return f"Cube(care={self.care:#b}, value={self.value:#b}, outputs={self.outputs:#b})"
+
+    # -- construction -------------------------------------------------------------------------------------------
+    @classmethod
+    def universe(cls, outputs: int = 1) -> Cube:
+        """The cube holding every point (no literals)."""
+        return cls(0, 0, outputs)
+
+    @classmethod
+    def point(cls, p: int, n: int, outputs: int = 1) -> Cube:
+        """The cube holding exactly point ``p`` of ``n`` inputs (a minterm)."""
+        full = (1 << n) - 1
+        return cls(full, p & full, outputs)
+
+    @classmethod
+    def parse(cls, text: str, outputs: int = 1) -> Cube:
+        """Read an input part written as in PLA (``0``, ``1``, ``-``/``x``/``X``; leftmost is input 0)."""
+        care = value = 0
+        for i, ch in enumerate(text):
+            if ch == "1":
+                care |= 1 << i
+                value |= 1 << i
+            elif ch == "0":
+                care |= 1 << i
+            elif ch not in "-xX":
+                raise ValueError(f"Cube text {text!r} has {ch!r} at column {i + 1}; expected 0, 1, - or x")
+        return cls(care, value, outputs)
+
+    # -- queries ------------------------------------------------------------------------------------------------
+    @property
+    def literals(self) -> int:
+        """Number of inputs tested."""
+        return self.care.bit_count()
+
+    def size_log2(self, n: int) -> int:
+        """log2 of the number of points the cube holds over ``n`` inputs."""
+        return n - self.literals
+
+    def contains_point(self, p: int) -> bool:
+        return p & self.care == self.value
+
+    def contains(self, other: Cube) -> bool:
+        """Input-part containment: every point of ``other`` is in ``self`` (outputs ignored)."""
+        return other.care & self.care == self.care and other.value & self.care == self.value
+
+    def intersects(self, other: Cube) -> bool:
+        """Input parts share a point (outputs ignored)."""
+        return (self.value ^ other.value) & self.care & other.care == 0
+
+    def intersect(self, other: Cube) -> Cube | None:
+        """Input-part intersection, feeding the outputs both feed; ``None`` when the input parts are disjoint."""
+        if not self.intersects(other):
+            return None
+        return Cube(self.care | other.care, self.value | other.value, self.outputs & other.outputs)
+
+    def distance(self, other: Cube) -> int:
+        """Number of inputs on which the two cubes require opposite values."""
+        return ((self.value ^ other.value) & self.care & other.care).bit_count()
+
+    def supercube(self, other: Cube) -> Cube:
+        """Smallest cube containing both input parts."""
+        care = self.care & other.care & ~(self.value ^ other.value)
+        return Cube(care, self.value & care, self.outputs | other.outputs)
+
+    def cofactor(self, var: int, val: int) -> Cube | None:
+        """Cofactor with respect to input ``var`` = ``val``: ``None`` if the cube excludes that half."""
+        bit = 1 << var
+        if self.care & bit:
+            if bool(self.value & bit) != bool(val):
+                return None
+            return Cube(self.care & ~bit, self.value & ~bit, self.outputs)
+        return self
+
+    def with_outputs(self, outputs: int) -> Cube:
+        return Cube(self.care, self.value, outputs)
+
+    def text(self, n: int) -> str:
+        """Input part as PLA text over ``n`` inputs (leftmost is input 0)."""
+        out = []
+        for i in range(n):
+            bit = 1 << i
+            out.append(("1" if self.value & bit else "0") if self.care & bit else "-")
+        return "".join(out)
+
+    def points(self, n: int) -> Iterator[int]:
+        """Every point of the cube over ``n`` inputs (2**(n - literals) of them: use with care)."""
+        free = [i for i in range(n) if not self.care >> i & 1]
+        for k in range(1 << len(free)):
+            p = self.value
+            for b, i in enumerate(free):
+                if k >> b & 1:
+                    p |= 1 << i
+            yield p
+
+
+def cubes_intersect(a: Iterable[Cube], b: Sequence[Cube]) -> tuple[Cube, Cube] | None:
+    """First pair (x from ``a``, y from ``b``) whose input parts share a point, or ``None``."""
+    for x in a:
+        for y in b:
+            if x.intersects(y):
+                return x, y
+    return None
+
+
+def drop_inputs(cubes: Iterable[Cube], mask: int) -> list[Cube]:
+    """Existentially quantify the inputs in ``mask`` away (remove their literals)."""
+    return [Cube(c.care & ~mask, c.value & ~mask, c.outputs) for c in cubes]
+
+
+def _most_binate(cubes: Sequence[Cube]) -> int:
+    counts: dict[int, int] = {}
+    for c in cubes:
+        m = c.care
+        while m:
+            low = m & -m
+            i = low.bit_length() - 1
+            counts[i] = counts.get(i, 0) + 1
+            m ^= low
+    # prefer variables appearing in both phases, then most often
+    best, best_key = -1, (-1, -1)
+    for i, cnt in counts.items():
+        bit = 1 << i
+        pos = sum(1 for c in cubes if c.care & bit and c.value & bit)
+        key = (1 if 0 < pos < cnt else 0, cnt)
+        if key > best_key:
+            best, best_key = i, key
+    return best
+
+
+def _absorb(cubes: list[Cube]) -> list[Cube]:
+    """Remove cubes contained in another (single-cube containment)."""
+    cubes = sorted(set(cubes), key=lambda c: c.literals)
+    kept: list[Cube] = []
+    for c in cubes:
+        if not any(k.contains(c) for k in kept):
+            kept.append(c)
+    return kept
+
+
+def complement(cubes: Sequence[Cube], outputs: int = 1) -> list[Cube]:
+    """Cubes covering exactly the points no cube in ``cubes`` covers (input parts only).
+
+    Recursive Shannon expansion on the most binate input (the unate recursive paradigm), with single-cube
+    containment at each merge. Cost grows with the structure of the list, never with 2**n: a list of range cubes
+    over 32 inputs complements in milliseconds.
+    """
+    return [c.with_outputs(outputs) for c in _complement(list(cubes))]
+
+
+def _complement(cubes: list[Cube]) -> list[Cube]:
+    if not cubes:
+        return [Cube(0, 0)]
+    for c in cubes:
+        if c.care == 0:
+            return []
+    if len(cubes) == 1:
+        c = cubes[0]
+        out = []
+        m = c.care
+        while m:
+            low = m & -m
+            out.append(Cube(low, low & ~c.value))
+            m ^= low
+        return out
+    var = _most_binate(cubes)
+    bit = 1 << var
+    halves = []
+    for val in (0, 1):
+        cof = [x for x in (c.cofactor(var, val) for c in cubes) if x is not None]
+        halves.append(_complement(cof))
+    lo, hi = halves
+    lo_set, hi_set = set(lo), set(hi)
+    both = lo_set & hi_set
+    out = list(both)
+    out += [Cube(c.care | bit, c.value, 1) for c in lo if c not in both]
+    out += [Cube(c.care | bit, c.value | bit, 1) for c in hi if c not in both]
+    return _absorb(out)
+
+
+def cube_list_contains(cubes: Sequence[Cube], cube: Cube) -> bool:
+    """Whether the union of ``cubes`` contains every point of ``cube`` (tautology of the cofactor)."""
+    cof = []
+    for c in cubes:
+        if c.intersects(cube):
+            cof.append(Cube(c.care & ~cube.care, c.value & ~cube.care))
+    return not _complement(cof)
+
+
+@dataclass(frozen=True, slots=True)
+class Cover:
+    """A multi-output two-level cover: shared product terms plus how it was obtained.
+
+    Parameters
+    ----------
+    input_names, output_names : tuple of str
+        Names in order; input ``i`` is bit ``i`` of a point.
+    cubes : tuple of Cube
+        The product terms; ``cube.outputs`` says which outputs each feeds.
+    inverted : int
+        Bit ``j`` set: output ``j`` is realized in complement (the OR of its cubes is the complement of the output,
+        for devices with programmable output polarity).
+    method : str
+        ``"exact"``, ``"heuristic"`` or what produced it (``"file"`` for a cover read back from PLA).
+    optimal : bool
+        True only when the method proved no cover has fewer rows under its cost model.
+    lower_bound : int
+        Best proven lower bound on the number of rows.
+    seconds : float
+        Wall time spent producing it.
+    cost : str
+        ``"shared"`` or ``"per-output"``.
+    """
+
+    input_names: tuple[str, ...]
+    output_names: tuple[str, ...]
+    cubes: tuple[Cube, ...]
+    inverted: int = 0
+    method: str = "file"
+    optimal: bool = False
+    lower_bound: int = 0
+    seconds: float = 0.0
+    cost: str = "shared"
+    extra: tuple[tuple[str, object], ...] = field(default=(), compare=False)
+
+    @property
+    def n_inputs(self) -> int:
+        return len(self.input_names)
+
+    @property
+    def n_outputs(self) -> int:
+        return len(self.output_names)
+
+    @property
+    def rows(self) -> int:
+        """Distinct product terms (AND-plane rows)."""
+        return len(self.cubes)
+
+    @property
+    def literals(self) -> int:
+        """Literals summed over the distinct product terms."""
+        return sum(c.literals for c in self.cubes)
+
+    def terms(self) -> dict[str, int]:
+        """Output name -> number of product terms feeding it."""
+        return {
+            name: sum(1 for c in self.cubes if c.outputs >> j & 1) for j, name in enumerate(self.output_names)
+        }
+
+    def cubes_for(self, j: int) -> list[Cube]:
+        """The cubes feeding output ``j`` (before any inversion)."""
+        return [c for c in self.cubes if c.outputs >> j & 1]
+
+    def is_inverted(self, j: int) -> bool:
+        return bool(self.inverted >> j & 1)
+
+    def evaluate(self, point: int) -> int:
+        """Output bitmask the cover gives at ``point`` (inversion applied)."""
+        raw = 0
+        for c in self.cubes:
+            if point & c.care == c.value:
+                raw |= c.outputs
+        return raw ^ self.inverted
+
+    def with_(self, **changes: object) -> Cover:
+        return replace(self, **changes)  # type: ignore[arg-type]

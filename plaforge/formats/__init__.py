@@ -1,0 +1,46 @@
+"""Spec readers (chosen by file extension) and the PLA writer.
+
+``read_spec(path)`` returns a :class:`plaforge.table.Table`; every malformed file raises
+:class:`plaforge.errors.SpecError` with ``FILE:LINE[:COL]: what is wrong, what was expected``.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+from ..errors import SpecError
+from ..table import Table
+
+__all__ = ["read_spec", "READERS"]
+
+READERS = {".pla": "pla", ".csv": "csv", ".toml": "spec"}
+
+
+def read_spec(path: str | os.PathLike[str]) -> Table:
+    """Read a ``.pla``, ``.csv`` or ``.toml`` spec file into a Table."""
+    p = Path(path)
+    kind = READERS.get(p.suffix.lower())
+    if kind is None:
+        raise SpecError(p, None, f"unknown spec extension {p.suffix!r}; expected one of .pla, .csv, .toml")
+    try:
+        text = p.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise SpecError(p, None, "no such file") from None
+    except IsADirectoryError:
+        raise SpecError(p, None, "is a directory, expected a spec file") from None
+    except UnicodeDecodeError as exc:
+        raise SpecError(p, None, f"not UTF-8 text (byte {exc.start}); expected a text spec file") from None
+    except OSError as exc:
+        raise SpecError(p, None, f"cannot read: {exc.strerror}") from None
+    if kind == "pla":
+        from .pla import parse_pla
+
+        return parse_pla(text, str(path))
+    if kind == "csv":
+        from .csv import parse_csv
+
+        return parse_csv(text, str(path))
+    from .spec import parse_design
+
+    return parse_design(text, str(path))

@@ -1,0 +1,43 @@
+"""Human-readable summaries of tables and results (plain text; no layout borrowed from elsewhere)."""
+
+from __future__ import annotations
+
+from .table import Table
+
+__all__ = ["table_summary", "CAUTION"]
+
+CAUTION = (
+    "Caution: combinational outputs can glitch while inputs change; register them or prove the hazard harmless. "
+    "Close timing in the device flow, follow the device maker's documentation, and have the logic reviewed before "
+    "any safety-relevant use."
+)
+
+
+def _fmt_sets(table: Table, j: int) -> str:
+    n = table.n_inputs
+    on, dc, off = table.on_cubes(j), table.dc_cubes(j), table.off_cubes(j)
+    return f"ON {len(on)} cubes, DC {len(dc)} cubes, OFF {len(off)} cubes" if n > 0 else ""
+
+
+def table_summary(table: Table) -> str:
+    """Ports, per-output support and ON/DC/OFF sizes (as cube counts, and point counts when enumerable)."""
+    lines = [f"spec {table.source or '(in memory)'}: {table.n_inputs} inputs, {table.n_outputs} outputs"]
+    lines.append("  inputs:  " + ", ".join(f"{b.name}" + ("" if b.scalar else f"[{b.width}]")
+                                         for b in table.input_buses))
+    lines.append("  outputs: " + ", ".join(f"{b.name}" + ("" if b.scalar else f"[{b.width}]")
+                                         for b in table.output_buses))
+    enumerable = table.n_inputs <= 20
+    width = max((len(n) for n in table.output_names), default=4)
+    for j, name in enumerate(table.output_names):
+        sup = table.support_names(j)
+        extra = ""
+        if enumerable:
+            from .table import popcount_bits
+
+            on_b, dc_b = table.truth(j)
+            n_on, n_dc = popcount_bits(on_b), popcount_bits(dc_b)
+            extra = f"; points ON {n_on}, DC {n_dc}, OFF {(1 << table.n_inputs) - n_on - n_dc}"
+        shown = ", ".join(sup[:10]) + (f", ... ({len(sup)} in all)" if len(sup) > 10 else "")
+        lines.append(f"  {name:<{width}}  depends on {len(sup)}: {shown or '(constant)'}")
+        lines.append(f"  {'':<{width}}  {_fmt_sets(table, j)}{extra}")
+    return "\n".join(lines)

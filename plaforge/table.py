@@ -1,0 +1,456 @@
+"""The Table: a multi-output, incompletely specified Boolean function exactly as the user gave it.
+
+Vocabulary
+----------
+ON / DC / OFF set
+    For each output, the points where it must be 1, may be anything (don't-care), or must be 0. The three sets
+    partition the 2**n points. Each is held as a list of cubes (see :mod:`plaforge.cube`); at most one of the three
+    may be left implicit ("the rest"), and is computed on demand as the complement of the other two, so a table
+    described by a few range cubes over 32 inputs never enumerates anything.
+bit-parallel truth table
+    For n up to an enumeration limit (default 24), a set of points as a packed ``numpy.uint64`` array of
+    ``max(1, 2**n // 64)`` words: point ``p`` is bit ``p % 64`` of word ``p // 64``.
+bus
+    A group of inputs or outputs written ``name[i]`` that emitters show as one multi-bit port (member 0 is the LSB).
+support
+    The inputs an output really depends on: input ``i`` can be dropped when no ON point and OFF point differ only
+    in inputs already dropped plus ``i``.
+"""
+
+from __future__ import annotations
+
+import functools
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .cube import Cube, complement, drop_inputs
+from .errors import TooWide
+
+__all__ = [
+    "Bus", "Table", "DEFAULT_ENUM_LIMIT", "cube_bits", "cubes_bits", "popcount_bits", "point_bits", "pack_bool",
+    "unpack_bits", "bool_array_to_cubes",
+]
+
+DEFAULT_ENUM_LIMIT = 24
+
+
+@dataclass(frozen=True, slots=True)
+class Bus:
+    """A port as the spec names it: ``indices[b]`` is the table index of bit ``b`` (LSB first).
+
+    ``scalar`` ports are single bits whose table name is the port name itself (no ``[0]``).
+    """
+
+    name: str
+    indices: tuple[int, ...]
+    scalar: bool = False
+
+    @property
+    def width(self) -> int:
+        return len(self.indices)
+
+
+def _default_buses(names: Sequence[str]) -> tuple[Bus, ...]:
+    """Group ``x[0]``, ``x[1]``, ... into buses; anything else is a scalar port. Order of first appearance."""
+    groups: dict[str, dict[int, int]] = {}
+    order: list[tuple[str, bool]] = []
+    for idx, name in enumerate(names):
+        base, sep, rest = name.partition("[")
+        if sep and rest.endswith("]") and rest[:-1].isdigit() and base:
+            if base not in groups:
+                groups[base] = {}
+                order.append((base, False))
+            groups[base][int(rest[:-1])] = idx
+        else:
+            order.append((name, True))
+    buses = []
+    for base, scalar in order:
+        if scalar:
+            buses.append(Bus(base, (names.index(base),), True))
+        else:
+            bits = groups[base]
+            if sorted(bits) == list(range(len(bits))):
+                buses.append(Bus(base, tuple(bits[b] for b in range(len(bits)))))
+            else:  # gaps: keep each bit as its own port under its own name
+                for b in sorted(bits):
+                    buses.append(Bus(f"{base}[{b}]", (bits[b],), True))
+    return tuple(buses)
+
+
+@dataclass(frozen=True, eq=False)
+class Table:
+    """A multi-output incompletely specified function.
+
+    Parameters
+    ----------
+    input_names, output_names : tuple of str
+        Ordered names; input ``i`` is bit ``i`` of a point.
+    on, dc, off : tuple (one entry per output) of tuple of Cube, or None
+        The sets as given. Per output at most one of the three may be ``None``, meaning "every point not in the
+        other two". A point given both as ON (or OFF) and DC is a don't-care.
+    input_buses, output_buses : tuple of Bus
+        Port grouping for emitters; derived from ``name[i]`` names when omitted.
+    source : str
+        Where the table came from (a file name), for reports.
+
+    Raises
+    ------
+    ValueError
+        If the shapes disagree or an output leaves more than one set implicit.
+    """
+
+    input_names: tuple[str, ...]
+    output_names: tuple[str, ...]
+    on: tuple[tuple[Cube, ...] | None, ...]
+    dc: tuple[tuple[Cube, ...] | None, ...]
+    off: tuple[tuple[Cube, ...] | None, ...]
+    input_buses: tuple[Bus, ...] = ()
+    output_buses: tuple[Bus, ...] = ()
+    source: str = ""
+    _cache: dict = field(default_factory=dict, repr=False, compare=False)
+
+    def __post_init__(self) -> None:
+        m = len(self.output_names)
+        for label, sets in (("on", self.on), ("dc", self.dc), ("off", self.off)):
+            if len(sets) != m:
+                raise ValueError(f"Table.{label} has {len(sets)} entries for {m} outputs")
+        for j in range(m):
+            implicit = sum(s is None for s in (self.on[j], self.dc[j], self.off[j]))
+            if implicit > 1:
+                raise ValueError(f"output {self.output_names[j]!r} leaves {implicit} sets implicit; at most 1 may be")
+        if len(set(self.input_names)) != len(self.input_names):
+            raise ValueError(f"duplicate input names in {self.input_names!r}")
+        if len(set(self.output_names)) != len(self.output_names):
+            raise ValueError(f"duplicate output names in {self.output_names!r}")
+        if not self.input_buses:
+            object.__setattr__(self, "input_buses", _default_buses(self.input_names))
+        if not self.output_buses:
+            object.__setattr__(self, "output_buses", _default_buses(self.output_names))
+
+    # -- identity ------------------------------------------------------------------------------------------------
+    def _key(self) -> tuple:
+        m = self.n_outputs
+        return (
+            self.input_names,
+            self.output_names,
+            tuple(frozenset(self.on_cubes(j)) for j in range(m)),
+            tuple(frozenset(self.dc_cubes(j)) for j in range(m)),
+        )
+
+    def __eq__(self, other: object) -> bool:
+        if not isinstance(other, Table):
+            return NotImplemented
+        return self._key() == other._key()
+
+    def __hash__(self) -> int:
+        return hash((self.input_names, self.output_names))
+
+    def __repr__(self) -> str:
+        return (
+            f"<Table {self.n_inputs} inputs {list(self.input_names)[:8]}{'...' if self.n_inputs > 8 else ''}, "
+            f"{self.n_outputs} outputs {list(self.output_names)[:8]}{'...' if self.n_outputs > 8 else ''}"
+            f"{' from ' + self.source if self.source else ''}>"
+        )
+
+    # -- shape ---------------------------------------------------------------------------------------------------
+    @property
+    def n_inputs(self) -> int:
+        return len(self.input_names)
+
+    @property
+    def n_outputs(self) -> int:
+        return len(self.output_names)
+
+    def output_index(self, name: str) -> int:
+        return self.output_names.index(name)
+
+    # -- the three sets as cubes ---------------------------------------------------------------------------------
+    def _set(self, j: int, kind: int) -> tuple[Cube, ...]:
+        """Set ``kind`` (0 ON, 1 DC, 2 OFF) of output ``j``, computed only when asked for."""
+        key = ("set", j, kind)
+        if key in self._cache:
+            return self._cache[key]
+        given = (self.on[j], self.dc[j], self.off[j])
+        s = given[kind]
+        if s is None and ("truth", j) in self._cache:
+            on_b, dc_b = self._cache[("truth", j)]
+            n = self.n_inputs
+            bits = on_b if kind == 0 else dc_b if kind == 1 else ~(on_b | dc_b) & _valid_mask(n)
+            s = tuple(bool_array_to_cubes(unpack_bits(bits, n), n, 1 << j))
+        elif s is None:
+            others = [c for k in range(3) if k != kind for c in given[k]]  # type: ignore[union-attr]
+            s = tuple(complement(others))
+        if kind != 1:
+            # DC wins over ON/OFF where they overlap: trim to exclude DC points.
+            dc = self.dc_cubes(j)
+            if dc:
+                s = _sharp(s, dc)
+        bit = 1 << j
+        res = tuple(c if c.outputs == bit else c.with_outputs(bit) for c in s)
+        self._cache[key] = res
+        return res
+
+    def on_cubes(self, j: int) -> tuple[Cube, ...]:
+        """Cubes covering exactly output ``j``'s ON set (each with ``outputs == 1 << j``)."""
+        return self._set(j, 0)
+
+    def dc_cubes(self, j: int) -> tuple[Cube, ...]:
+        """Cubes covering exactly output ``j``'s don't-care set."""
+        return self._set(j, 1)
+
+    def off_cubes(self, j: int) -> tuple[Cube, ...]:
+        """Cubes covering exactly output ``j``'s OFF set."""
+        return self._set(j, 2)
+
+    def evaluate(self, point: int) -> tuple[int, int]:
+        """``(on_mask, dc_mask)`` over outputs at one point (cube look-ups; no enumeration)."""
+        on_mask = dc_mask = 0
+        for j in range(self.n_outputs):
+            if any(point & c.care == c.value for c in self.dc_cubes(j)):
+                dc_mask |= 1 << j
+            elif any(point & c.care == c.value for c in self.on_cubes(j)):
+                on_mask |= 1 << j
+        return on_mask, dc_mask
+
+    # -- support -------------------------------------------------------------------------------------------------
+    def support(self, j: int) -> int:
+        """Bitmask of the inputs output ``j`` depends on (greedy; exact when there are no don't-cares)."""
+        key = ("support", j)
+        if key in self._cache:
+            return self._cache[key]
+        on, off = self.on_cubes(j), self.off_cubes(j)
+        used = 0
+        for c in on + off:
+            used |= c.care
+        dropped = 0
+        for i in range(self.n_inputs):
+            bit = 1 << i
+            if not used & bit:
+                dropped |= bit
+                continue
+            trial = dropped | bit
+            a, b = drop_inputs(on, trial), drop_inputs(off, trial)
+            if not _lists_intersect(a, b):
+                dropped = trial
+        full = (1 << self.n_inputs) - 1
+        res = full & ~dropped
+        self._cache[key] = res
+        return res
+
+    def support_names(self, j: int) -> list[str]:
+        s = self.support(j)
+        return [n for i, n in enumerate(self.input_names) if s >> i & 1]
+
+    # -- bit-parallel truth tables -------------------------------------------------------------------------------
+    def check_enumerable(self, limit: int = DEFAULT_ENUM_LIMIT, what: str = "this operation") -> None:
+        if self.n_inputs > limit:
+            raise TooWide(
+                f"{self.source or 'table'}: {what} enumerates 2^{self.n_inputs} points, above the enumeration "
+                f"limit of {limit} inputs; raise the limit or use a cube-based path"
+            )
+
+    def truth(self, j: int, limit: int = DEFAULT_ENUM_LIMIT) -> tuple[np.ndarray, np.ndarray]:
+        """``(on_bits, dc_bits)`` of output ``j`` as packed bit arrays (see module docs)."""
+        self.check_enumerable(limit, "a truth table")
+        key = ("truth", j)
+        if key not in self._cache:
+            n = self.n_inputs
+            self._cache[key] = (cubes_bits(self.on_cubes(j), n), cubes_bits(self.dc_cubes(j), n))
+        return self._cache[key]
+
+    # -- constructors --------------------------------------------------------------------------------------------
+    @classmethod
+    def from_function(
+        cls,
+        input_names: Sequence[str],
+        output_names: Sequence[str],
+        fn: Callable[[np.ndarray], Sequence[np.ndarray]],
+        dc_fn: Callable[[np.ndarray], Sequence[np.ndarray]] | None = None,
+        source: str = "",
+    ) -> Table:
+        """Build a table by evaluating ``fn`` on every point at once.
+
+        ``fn(points)`` receives ``numpy.arange(2**n)`` and returns one boolean array per output; ``dc_fn`` likewise
+        marks don't-care points. ON/DC sets become merged cubes (not minterm lists).
+        """
+        n, m = len(input_names), len(output_names)
+        pts = np.arange(1 << n, dtype=np.int64)
+        vals = fn(pts)
+        dcs = dc_fn(pts) if dc_fn is not None else [np.zeros(1 << n, dtype=bool)] * m
+        if len(vals) != m or len(dcs) != m:
+            raise ValueError(f"fn gave {len(vals)} outputs and dc_fn {len(dcs)}; expected {m}")
+        on_sets, dc_sets, truths = [], [], []
+        for j in range(m):
+            v = np.asarray(vals[j], dtype=bool)
+            d = np.asarray(dcs[j], dtype=bool)
+            v = v & ~d
+            on_sets.append(tuple(bool_array_to_cubes(v, n, 1 << j)))
+            dc_sets.append(tuple(bool_array_to_cubes(d, n, 1 << j)))
+            truths.append((pack_bool(v), pack_bool(d)))
+        t = cls(tuple(input_names), tuple(output_names), tuple(on_sets), tuple(dc_sets), (None,) * m, source=source)
+        for j in range(m):
+            t._cache[("truth", j)] = truths[j]
+        return t
+
+
+# ---------------------------------------------------------------------------------------------------------------
+def _lists_intersect(a: Sequence[Cube], b: Sequence[Cube]) -> bool:
+    for x in a:
+        for y in b:
+            if (x.value ^ y.value) & x.care & y.care == 0:
+                return True
+    return False
+
+
+def _sharp(a: Sequence[Cube], b: Sequence[Cube]) -> tuple[Cube, ...]:
+    """Points of ``a`` not in ``b``, as cubes."""
+    if not any(x.intersects(y) for x in a for y in b):
+        return tuple(a)
+    comp = complement(list(b))
+    out = []
+    for x in a:
+        for y in comp:
+            z = x.intersect(y)
+            if z is not None:
+                out.append(Cube(z.care, z.value, x.outputs))
+    return tuple(dict.fromkeys(out))
+
+
+def bool_array_to_cubes(v: np.ndarray, n: int, outputs: int = 1) -> list[Cube]:
+    """Cubes for the points where ``v`` is true (point order), merged recursively on the top input.
+
+    The recursion works on 64-point words (each distinct word's cubes computed once), so a function of 20 inputs
+    costs about 2**14 steps, not 2**20.
+    """
+    v = np.asarray(v, dtype=bool)
+    if n <= 6:
+        word = 0
+        for p in np.flatnonzero(v):
+            word |= 1 << int(p)
+        return [Cube(c, val, outputs) for c, val in _word_cubes(word, n)]
+    words = pack_bool(v)
+    full = np.uint64(0xFFFFFFFFFFFFFFFF)
+
+    def rec(lo: int, var: int) -> list[tuple[int, int]]:
+        # words[lo : lo + 2**(var-5)] hold points decided on inputs var..0
+        if var == 5:
+            return _word_cubes(int(words[lo]), 6)
+        seg = words[lo : lo + (1 << (var - 5))]
+        if not seg.any():
+            return []
+        if (seg == full).all():
+            return [(0, 0)]
+        half = 1 << (var - 6)
+        return _merge(rec(lo, var - 1), rec(lo + half, var - 1), 1 << var)
+
+    return [Cube(c, val, outputs) for c, val in rec(0, n - 1)]
+
+
+def _merge(a: list[tuple[int, int]], b: list[tuple[int, int]], bit: int) -> list[tuple[int, int]]:
+    both = set(a) & set(b)
+    out = [c for c in a if c in both]
+    out += [(c | bit, val) for c, val in a if (c, val) not in both]
+    out += [(c | bit, val | bit) for c, val in b if (c, val) not in both]
+    return out
+
+
+@functools.lru_cache(maxsize=1 << 16)
+def _word_cubes(word: int, n: int) -> list[tuple[int, int]]:
+    """Cubes (care, value) over inputs 0..n-1 for the points set in ``word`` (n <= 6)."""
+    size = 1 << n
+    word &= (1 << size) - 1
+    if word == 0:
+        return []
+    if word == (1 << size) - 1:
+        return [(0, 0)]
+    half = size >> 1
+    lo = _word_cubes(word & ((1 << half) - 1), n - 1)
+    hi = _word_cubes(word >> half, n - 1)
+    return _merge(lo, hi, 1 << (n - 1))
+
+
+def _words(n: int) -> int:
+    return max(1, (1 << n) >> 6)
+
+
+def _valid_mask(n: int) -> np.uint64:
+    return np.uint64((1 << (1 << n)) - 1) if n < 6 else np.uint64(0xFFFFFFFFFFFFFFFF)
+
+
+_LOW_PATTERNS = [
+    0xAAAAAAAAAAAAAAAA,
+    0xCCCCCCCCCCCCCCCC,
+    0xF0F0F0F0F0F0F0F0,
+    0xFF00FF00FF00FF00,
+    0xFFFF0000FFFF0000,
+    0xFFFFFFFF00000000,
+]
+
+
+@functools.lru_cache(maxsize=64)
+def _literal_bits(n: int, i: int) -> np.ndarray:
+    """Packed set of points with input ``i`` equal to 1, over ``n`` inputs (read-only)."""
+    w = _words(n)
+    if i < 6:
+        arr = np.full(w, np.uint64(_LOW_PATTERNS[i]), dtype=np.uint64) & _valid_mask(n)
+    else:
+        idx = np.arange(w, dtype=np.uint64)
+        arr = np.where((idx >> np.uint64(i - 6)) & np.uint64(1), np.uint64(0xFFFFFFFFFFFFFFFF), np.uint64(0))
+        arr = arr.astype(np.uint64)
+    arr.setflags(write=False)
+    return arr
+
+
+def cube_bits(cube: Cube, n: int) -> np.ndarray:
+    """Packed set of the points of ``cube`` over ``n`` inputs."""
+    arr = np.full(_words(n), _valid_mask(n), dtype=np.uint64)
+    m = cube.care
+    while m:
+        low = m & -m
+        i = low.bit_length() - 1
+        lit = _literal_bits(n, i)
+        if cube.value & low:
+            arr &= lit
+        else:
+            arr &= ~lit
+        m ^= low
+    if n < 6:
+        arr &= _valid_mask(n)
+    return arr
+
+
+def cubes_bits(cubes: Sequence[Cube], n: int) -> np.ndarray:
+    """Packed union of the points of ``cubes`` over ``n`` inputs."""
+    out = np.zeros(_words(n), dtype=np.uint64)
+    for c in cubes:
+        out |= cube_bits(c, n)
+    return out
+
+
+def pack_bool(v: np.ndarray) -> np.ndarray:
+    """Pack a boolean array of length 2**n (point order) into the uint64 layout used here."""
+    v = np.asarray(v, dtype=bool)
+    if v.size < 64:
+        word = 0
+        for p in np.flatnonzero(v):
+            word |= 1 << int(p)
+        return np.array([word], dtype=np.uint64)
+    return np.packbits(v.reshape(-1, 8), axis=1, bitorder="little").reshape(-1).view(np.uint64).copy()
+
+
+def unpack_bits(bits: np.ndarray, n: int) -> np.ndarray:
+    """Inverse of :func:`pack_bool`: boolean array of length 2**n."""
+    raw = np.unpackbits(np.ascontiguousarray(bits).view(np.uint8), bitorder="little")
+    return raw[: 1 << n].astype(bool)
+
+
+def popcount_bits(bits: np.ndarray) -> int:
+    """Number of points in a packed set."""
+    return int(np.unpackbits(np.ascontiguousarray(bits).view(np.uint8)).sum())
+
+
+def point_bits(bits: np.ndarray, p: int) -> bool:
+    """Whether point ``p`` is in a packed set."""
+    return bool(int(bits[p >> 6]) >> (p & 63) & 1)
