@@ -41,3 +41,46 @@ def table_summary(table: Table) -> str:
         lines.append(f"  {name:<{width}}  depends on {len(sup)}: {shown or '(constant)'}")
         lines.append(f"  {'':<{width}}  {_fmt_sets(table, j)}{extra}")
     return "\n".join(lines)
+
+
+def build_report(result: object) -> str:
+    """Plain-text account of a build: figures, where each artifact is, and each output's verdict."""
+    from .minimize.summary import cover_summary
+
+    r = result  # BuildResult; typed loosely to keep report free of flow imports
+    t = r.table  # type: ignore[attr-defined]
+    cov = cover_summary(r.cover)  # type: ignore[attr-defined]
+    lines = [f"{t.source or 'design'}: {t.n_inputs} inputs, {t.n_outputs} outputs"]
+    status = "proven minimum" if cov["optimal"] else f"lower bound {cov['lower_bound']}"
+    lines.append(
+        f"  cover: {cov['rows']} product terms, {cov['literals']} literals ({cov['method']}, {status}, "
+        f"{cov['seconds']:.2f} s)"
+    )
+    net = r.network  # type: ignore[attr-defined]
+    if net is not None:
+        lb = net.lower_bounds
+        lines.append(
+            f"  LUT{net.k} network: {net.count} LUTs (lower bound {lb.get('count', '?')}), depth {net.depth} "
+            f"(lower bound {lb.get('depth', '?')})"
+        )
+    for name, f in r.fit.items():  # type: ignore[attr-defined]
+        verdict = "fits" if f["fits"] else "DOES NOT FIT"
+        lines.append(f"  budget {name}: {f['used']} used of {f['budget']}: {verdict}")
+    lines.append("  artifacts:")
+    for key, path in r.artifacts.items():  # type: ignore[attr-defined]
+        lines.append(f"    {key:<11} {path}")
+    lines.append("  checks against the source table:")
+    for key, v in r.verdicts.items():  # type: ignore[attr-defined]
+        outs = v.outputs
+        bad = [o for o in outs if not o.passed]
+        methods = sorted({o.method for o in outs})
+        if not bad:
+            lines.append(f"    {key:<11} all {len(outs)} outputs pass ({', '.join(methods)})")
+        else:
+            for o in bad:
+                p, exp, got = o.failure if o.failure else (None, None, None)
+                lines.append(f"    {key:<11} {o.name}: FAIL at point {p}: expected {exp}, got {got}")
+    for note in r.notes:  # type: ignore[attr-defined]
+        lines.append(f"  note: {note}")
+    lines.append(CAUTION)
+    return "\n".join(lines)

@@ -1,10 +1,16 @@
-"""``plaforge build``: every artifact for a spec in one directory."""
+"""``plaforge build``: every artifact for a spec in one directory, each checked against the spec."""
 
 from __future__ import annotations
 
+import json
+
 import click
 
-from . import cli, not_built
+from ..errors import CheckFailed
+from ..flow import BuildOptions, build
+from ..formats import read_spec
+from ..report import build_report
+from . import cli
 
 
 @cli.command("build")
@@ -13,8 +19,28 @@ from . import cli, not_built
               help="Directory for the artifacts.")
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT input count.")
 @click.option("--exact", is_flag=True, help="Prove a minimum cover instead of the fast heuristic.")
-@click.option("--cost", type=click.Choice(["shared", "per-output"]), default="shared", show_default=True)
+@click.option("--cost", type=click.Choice(["shared", "per-output"]), default="shared", show_default=True,
+              help="shared: count distinct product terms; per-output: count terms per output.")
+@click.option("--time-limit", type=click.FloatRange(min=0.1), default=60.0, show_default=True,
+              help="Seconds the exact solver may spend.")
+@click.option("--budget-rows", type=click.IntRange(min=0), help="Product-term rows the target device offers.")
+@click.option("--budget-luts", type=click.IntRange(min=0), help="LUTs the target region offers.")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object and nothing else.")
-def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, as_json: bool) -> None:
-    """Minimize SPEC, map it to LUTs, generate the module and check everything."""
-    not_built("the build flow")
+def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: float, budget_rows: int | None,
+              budget_luts: int | None, as_json: bool) -> None:
+    """Minimize SPEC, map it to LUTs, generate modules and Verilog, and check every artifact against SPEC.
+
+    Exit status 1 when a check fails or a result does not fit a budget.
+    """
+    table = read_spec(spec)
+    opts = BuildOptions(k=k, exact=exact, cost=cost, time_limit=time_limit, budget_rows=budget_rows,
+                        budget_luts=budget_luts)
+    result = build(table, out, opts)
+    if as_json:
+        click.echo(json.dumps(result.to_json_obj(), sort_keys=True))
+    else:
+        click.echo(build_report(result))
+    if not result.passed:
+        raise CheckFailed("an artifact does not match the spec (see above)")
+    if not result.fits:
+        raise CheckFailed("the result does not fit the stated budget (see above)")
