@@ -204,8 +204,8 @@ def _check_node(node: ast.AST, inputs: Mapping[str, int], others: Mapping[str, s
         known = ", ".join(list(inputs)) or "(none)"
         raise _fail(
             node,
-            f"unknown name {node.id!r}" + (f"; did you mean {hint[0]!r}?" if hint else "")
-            + f" (inputs: {known}; constants: pi, tau, e)",
+            f"unknown name {node.id!r}" + (f" (did you mean {hint[0]!r}?)" if hint else "")
+            + f"; expressions may read the inputs {known} and the constants pi, tau, e",
         )
     if isinstance(node, ast.Call):
         if not isinstance(node.func, ast.Name):
@@ -215,8 +215,8 @@ def _check_node(node: ast.AST, inputs: Mapping[str, int], others: Mapping[str, s
             hint = difflib.get_close_matches(name, list(FUNCTIONS), n=1)
             raise _fail(
                 node,
-                f"function {name!r} is not allowed" + (f"; did you mean {hint[0]!r}?" if hint else "")
-                + f" (allowed: {', '.join(FUNCTIONS)})",
+                f"function {name!r} is not allowed" + (f" (did you mean {hint[0]!r}?)" if hint else "")
+                + f"; allowed functions: {', '.join(FUNCTIONS)}",
             )
         if node.keywords:
             raise _fail(node, f"{name}() takes positional arguments only")

@@ -162,11 +162,11 @@ def parse_pla_file(text: str, path: str) -> PlaFile:
                 break
             if d not in _DIRECTIVES:
                 hint = difflib.get_close_matches(d, _DIRECTIVES, n=1)
-                extra = f"; did you mean {hint[0]!r}?" if hint else ""
+                extra = f" (did you mean {hint[0]!r}?)" if hint else ""
                 if d == ".mv":
-                    extra = "; multiple-valued inputs are not supported, only binary ones"
+                    extra = " (multiple-valued inputs are not supported, only binary ones)"
                 raise SpecError(
-                    path, lineno, f"unknown directive {words[0]!r}; expected one of {' '.join(_DIRECTIVES)}{extra}", col
+                    path, lineno, f"unknown directive {words[0]!r}{extra}; expected one of {' '.join(_DIRECTIVES)}", col
                 )
             if d in seen_dirs:
                 raise SpecError(path, lineno, f"{d} given twice (first on line {seen_dirs[d]})", col)
