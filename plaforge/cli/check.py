@@ -1,15 +1,33 @@
-"""``plaforge check``: verify an artifact against its source table."""
+"""``plaforge check``: verify an artifact against its source table, output by output."""
 
 from __future__ import annotations
 
 import click
 
-from . import cli, not_built
+from ..errors import CheckFailed
+from . import cli
 
 
 @cli.command("check")
 @click.argument("spec", type=click.Path(dir_okay=False))
 @click.argument("artifact", type=click.Path(dir_okay=False))
-def check_cmd(spec: str, artifact: str) -> None:
-    """Check ARTIFACT (.pla cover, LUT .json or generated module .py) against SPEC, output by output."""
-    not_built("artifact checking")
+@click.option("--exhaustive-limit", type=click.IntRange(0, 24), default=16, show_default=True,
+              help="Simulate every input point of a module up to this many inputs.")
+@click.option("--samples", type=click.IntRange(0), default=4096, show_default=True,
+              help="Random vectors (after the corner cases) when simulating above the limit.")
+@click.option("--seed", type=int, default=1, show_default=True, help="Seed of the random vectors.")
+def check_cmd(spec: str, artifact: str, exhaustive_limit: int, samples: int, seed: int) -> None:
+    """Check ARTIFACT (.pla cover, LUT .json or generated module .py) against SPEC, output by output.
+
+    Exit status 0 when every output passes, 1 when one fails, 2 on bad input.
+    """
+    from ..formats import read_spec
+    from ..verify.harness import check_artifact
+    from ..verify.report import format_verdict
+
+    table = read_spec(spec)
+    verdict = check_artifact(table, artifact, exhaustive_limit=exhaustive_limit, samples=samples, seed=seed)
+    click.echo(format_verdict(verdict, table))
+    if not verdict.passed:
+        failed = sum(not o.passed for o in verdict.outputs)
+        raise CheckFailed(f"{artifact}: {failed} of {len(verdict.outputs)} outputs do not match {spec}")

@@ -1,19 +1,61 @@
-"""``plaforge module``: a generated Amaranth component (and Verilog)."""
+"""``plaforge module``: a generated Amaranth component (and Verilog, and a stand-alone pytest harness)."""
 
 from __future__ import annotations
 
+import hashlib
+from pathlib import Path
+
 import click
 
-from . import cli, not_built
+from ..errors import PlaforgeError
+from . import cli
 
 
 @cli.command("module")
 @click.argument("spec", type=click.Path(dir_okay=False))
-@click.option("-o", "--output", "out", type=click.Path(dir_okay=False), help="Write the Amaranth module here.")
+@click.option("-o", "--output", "out", type=click.Path(dir_okay=False),
+              help="Write the Amaranth module here (default: print it).")
 @click.option("--verilog", "verilog", type=click.Path(dir_okay=False), help="Also write Verilog here.")
 @click.option("--style", type=click.Choice(["sop", "lut"]), default="sop", show_default=True,
               help="sop: shared product terms; lut: one constant per LUT.")
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT size for --style lut.")
-def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int) -> None:
+@click.option("--harness", "harness", type=click.Path(dir_okay=False),
+              help="Also write a stand-alone pytest file that simulates the module against SPEC (needs -o; keep "
+                   "both files in one directory).")
+def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, harness: str | None) -> None:
     """Generate an Amaranth component implementing SPEC."""
-    not_built("module generation")
+    from ..emit.amaranth import module_source
+    from ..fileio import write_text_atomic
+    from ..formats import read_spec
+
+    if harness is not None and out is None:
+        raise PlaforgeError("--harness imports the module from its own directory; give the module file with -o")
+    if out is not None and not out.endswith(".py"):
+        raise PlaforgeError(f"module file {out!r} must end in .py so it can be imported")
+    table = read_spec(spec)
+    if style == "sop":
+        from ..minimize import minimize
+
+        artifact = minimize(table)
+    else:
+        from ..lut import map_luts
+
+        artifact = map_luts(table, k)
+    digest = hashlib.sha256(Path(spec).read_bytes()).hexdigest()
+    source = module_source(table, artifact, source_name=Path(spec).name, source_digest=digest)
+    if out is None:
+        click.echo(source, nl=False)
+    else:
+        write_text_atomic(out, source)
+        click.echo(f"module:  {out}")
+    if verilog is not None:
+        from ..emit.verilog import verilog_source
+
+        write_text_atomic(verilog, verilog_source(source, Path(out or spec).stem))
+        if out is not None:
+            click.echo(f"verilog: {verilog}")
+    if harness is not None and out is not None:
+        from ..emit.harness import harness_source
+
+        write_text_atomic(harness, harness_source(table, Path(out).stem, source_name=Path(spec).name))
+        click.echo(f"harness: {harness}")
