@@ -325,7 +325,7 @@ def _disagree(path: str, clash: tuple[tuple[Cube, int], tuple[Cube, int]], out_n
         bits = [(shared.care >> i & 1, shared.value >> i & 1) for i in col.indices]
         if all(c for c, _ in bits):
             v = sum(val << b for b, (_c, val) in enumerate(bits))
-            parts.append(f"{col.name}={v if col.bus else v}")
+            parts.append(f"{col.name}={v}")
         elif any(c for c, _ in bits):
             parts.append(f"{col.name}=0b" + "".join(str(val) if c else "x" for c, val in reversed(bits)))
     where = ", ".join(parts) or "every combination"

@@ -71,9 +71,9 @@ from ..errors import SpecError
 from ..table import DEFAULT_ENUM_LIMIT, Bus, Table, bool_array_to_cubes
 from ._cubes import and_lists, field_cube, place, range_cubes, sharp
 from ._toml import Locator, load_toml
-from .expr import Expression, ExprError, compile_expr, evaluate
+from .expr import ExprError, Expression, compile_expr, evaluate
 
-__all__ = ["parse_design", "read_design", "MAX_WIDTH"]
+__all__ = ["MAX_WIDTH", "parse_design", "read_design"]
 
 MAX_WIDTH = 4096
 _NAME = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
@@ -206,7 +206,7 @@ class _Reader:
             self.check_name(name, where, "input")
             width = spec.get("width") if isinstance(spec, dict) else spec
             if isinstance(spec, dict) and set(spec) - {"width", "note"}:
-                bad = sorted(set(spec) - {"width", "note"})[0]
+                bad = min(set(spec) - {"width", "note"})
                 raise self.err(self.port_where("inputs", name, bad),
                                f"input {name!r} has unknown key {bad!r}; inputs take only width (and note)")
             width = self.check_width(width, where, f"input {name!r}")
