@@ -12,7 +12,7 @@ from pathlib import Path
 from ..errors import SpecError
 from ..table import Table
 
-__all__ = ["READERS", "read_spec"]
+__all__ = ["read_spec", "READERS"]
 
 READERS = {".pla": "pla", ".csv": "csv", ".toml": "spec"}
 
