@@ -25,14 +25,16 @@ import random
 import types
 from collections.abc import Sequence
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from ..emit.amaranth import Port, ports_of
 from ..errors import CheckFailed, PlaforgeError
 from ..table import DEFAULT_ENUM_LIMIT, Table, unpack_bits
 from .equivalence import OutputVerdict, Verdict
+
+if TYPE_CHECKING:
+    from ..emit.amaranth import Port
 
 __all__ = [
     "DEFAULT_SAMPLES",
@@ -93,6 +95,8 @@ def component_class(mod: types.ModuleType, where: str = "module") -> type:
 
 def _port_signals(table: Table, component: Any, where: str) -> tuple[list[Port], list[Port], list[Any], list[Any]]:
     from amaranth.lib import wiring
+
+    from ..emit.amaranth import ports_of  # here, not at the top: emit -> lut -> verify would import in a circle
 
     members = component.signature.members
     ins, outs, in_sigs, out_sigs = [], [], [], []
