@@ -1,0 +1,72 @@
+"""Two-level minimization: a Table in, a verified multi-output Cover out.
+
+Paths
+-----
+heuristic (default)
+    The Espresso-II heuristic (pyeda's compiled minimizer) fed the Table's cubes, all outputs jointly; any width,
+    never enumerating. See :mod:`plaforge.minimize.heuristic`.
+exact
+    Multi-output prime implicants, a reduced covering problem and a CP-SAT model; proven minimum rows (then
+    literals) or, at the time limit, the best cover with a lower bound. See :mod:`plaforge.minimize.exact`.
+phase
+    Output phase assignment: realize some outputs in complement when that lowers the cost. See
+    :mod:`plaforge.minimize.phase`.
+
+Every cover returned has been re-verified against the Table (ON ⊆ cover ⊆ ON ∪ DC per output).
+"""
+
+from __future__ import annotations
+
+import time
+
+from ..cube import Cover
+from ..table import Table
+from .options import CostModel, MinimizeOptions
+from .summary import cover_summary, format_summary
+
+__all__ = ["minimize", "MinimizeOptions", "CostModel", "cover_summary", "format_summary"]
+
+
+def minimize(table: Table, options: MinimizeOptions | None = None) -> Cover:
+    """Minimize ``table`` into a two-level cover.
+
+    Parameters
+    ----------
+    table : Table
+        The function; never modified.
+    options : MinimizeOptions, optional
+        Path, cost model, phase assignment, time limit; defaults to the heuristic with shared cost.
+
+    Returns
+    -------
+    Cover
+        With ``method`` (``"heuristic"``/``"exact"``), ``optimal`` (proven only), ``lower_bound``, ``seconds``
+        (whole call), ``cost`` and ``inverted`` (outputs realized in complement) filled in.
+
+    Raises
+    ------
+    plaforge.errors.SolverFailure
+        The compiled minimizer crashed, timed out or returned a wrong cover.
+    plaforge.errors.TooWide
+        ``exact`` on a table wider than ``options.exact_limit`` inputs.
+    """
+    if not isinstance(table, Table):
+        raise TypeError(f"minimize() needs a Table, not {type(table).__name__}")
+    opts = options if options is not None else MinimizeOptions()
+    if not isinstance(opts, MinimizeOptions):
+        raise TypeError(f"options must be MinimizeOptions, not {type(opts).__name__}")
+    t0 = time.perf_counter()
+    inverted = 0
+    if opts.phase:
+        from .phase import assign_phases
+
+        inverted = assign_phases(table, opts)
+    if opts.exact:
+        from .exact import minimize_exact
+
+        cover = minimize_exact(table, opts, inverted)
+    else:
+        from .heuristic import minimize_heuristic
+
+        cover = minimize_heuristic(table, opts, inverted)
+    return cover.with_(seconds=time.perf_counter() - t0)

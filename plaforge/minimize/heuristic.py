@@ -1,0 +1,266 @@
+"""Heuristic two-level minimization: the Espresso-II heuristic (pyeda's compiled minimizer) driven by cubes.
+
+Positional cube notation
+------------------------
+pyeda's low-level ``espresso(ninputs, noutputs, cover, intype)`` takes a set of rows ``(inpart, outpart)``. The
+input part holds one integer per input: ``1`` = the literal ``x'`` (input must be 0), ``2`` = ``x`` (must be 1),
+``3`` = no literal. The output part holds one entry per output: ``1`` = the row belongs to that output's ON set
+(F-type), ``2`` = to its don't-care set (D-type), ``0`` = neither. A plaforge :class:`~plaforge.cube.Cube` with
+``care``/``value`` masks maps to it bit by bit, so nothing is ever enumerated: a 40-input table given as cubes is
+fed as its cubes.
+
+Rows are built from the Table's ON and DC cubes of all outputs at once, with identical input parts merged across
+outputs (one row ``(c, outputs where c is ON)`` instead of one row per output), so the minimizer sees the
+multi-output function and shares product terms between outputs. Under the ``per-output`` cost each output is
+minimized alone and identical terms are merged only afterwards (they still count once per output).
+
+Isolation and trust
+-------------------
+The compiled minimizer keeps global configuration (``set_config``), which is reset to its defaults before every
+call, and it may end the whole process on some internal errors. By default it therefore runs in a forked child
+process with a time limit; a crash, a timeout or an answer that fails re-verification raises
+:class:`plaforge.errors.SolverFailure`. Re-verification is exhaustive and bit-parallel up to the enumeration limit,
+and cube-based above it (every cover cube inside ON ∪ DC, every ON cube inside the cover, both as tautology checks
+of cofactors).
+"""
+
+from __future__ import annotations
+
+import multiprocessing
+import time
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass
+from types import MappingProxyType
+from typing import Any
+
+from ..cube import Cover, Cube, cube_list_contains
+from ..errors import SolverFailure
+from ..table import DEFAULT_ENUM_LIMIT, Table
+from .options import MinimizeOptions
+
+__all__ = [
+    "ESPRESSO_DEFAULTS", "FunctionSets", "table_sets", "encode_cube", "decode_row", "espresso_cubes",
+    "heuristic_cubes", "merge_identical", "sort_cubes", "verify_cover", "minimize_heuristic",
+]
+
+#: pyeda's own defaults for the compiled minimizer's global switches (restored before every call).
+ESPRESSO_DEFAULTS: MappingProxyType[str, bool] = MappingProxyType({
+    "single_expand": False,
+    "remove_essential": True,
+    "force_irredundant": True,
+    "unwrap_onset": True,
+    "recompute_onset": False,
+    "use_super_gasp": False,
+    "skip_make_sparse": False,
+})
+
+
+@dataclass(frozen=True)
+class FunctionSets:
+    """ON and DC cubes per output of the function actually minimized (after any phase choice).
+
+    ``on[j]`` / ``dc[j]`` hold cubes with ``outputs == 1 << j``. With output ``j`` inverted, ``on[j]`` is the
+    Table's OFF set of ``j`` (the complement's ON set) and ``dc[j]`` is unchanged.
+    """
+
+    n: int
+    m: int
+    on: tuple[tuple[Cube, ...], ...]
+    dc: tuple[tuple[Cube, ...], ...]
+    inverted: int = 0
+
+
+def table_sets(table: Table, inverted: int = 0) -> FunctionSets:
+    """The ON/DC cubes of ``table``, with the outputs in ``inverted`` replaced by their complements."""
+    m = table.n_outputs
+    on = tuple(table.off_cubes(j) if inverted >> j & 1 else table.on_cubes(j) for j in range(m))
+    dc = tuple(table.dc_cubes(j) for j in range(m))
+    return FunctionSets(table.n_inputs, m, on, dc, inverted)
+
+
+def encode_cube(cube: Cube, n: int) -> tuple[int, ...]:
+    """Input part of ``cube`` in positional cube notation (1 = ``x'``, 2 = ``x``, 3 = no literal)."""
+    care, value = cube.care, cube.value
+    return tuple((2 if value >> i & 1 else 1) if care >> i & 1 else 3 for i in range(n))
+
+
+def decode_row(inpart: Sequence[int], outpart: Sequence[int]) -> Cube:
+    """A Cube from a positional-notation row; outputs are those whose entry is 1."""
+    care = value = 0
+    for i, v in enumerate(inpart):
+        if v == 1:
+            care |= 1 << i
+        elif v == 2:
+            care |= 1 << i
+            value |= 1 << i
+        elif v != 3:
+            raise SolverFailure(f"minimizer returned input entry {v!r} at column {i}; expected 1, 2 or 3")
+    outputs = 0
+    for j, v in enumerate(outpart):
+        if v == 1:
+            outputs |= 1 << j
+    return Cube(care, value, outputs)
+
+
+def merge_identical(cubes: Sequence[Cube]) -> list[Cube]:
+    """One cube per distinct input part, feeding the union of the outputs (first-seen order)."""
+    merged: dict[tuple[int, int], int] = {}
+    for c in cubes:
+        key = (c.care, c.value)
+        merged[key] = merged.get(key, 0) | c.outputs
+    return [Cube(care, value, out) for (care, value), out in merged.items() if out]
+
+
+def sort_cubes(cubes: Sequence[Cube]) -> list[Cube]:
+    """Deterministic order: by the outputs fed (output 0 first), then fewer literals, then the masks."""
+    def key(c: Cube) -> tuple[int, int, int, int]:
+        low = (c.outputs & -c.outputs).bit_length()
+        return (low, c.literals, c.care, c.value)
+    return sorted(cubes, key=key)
+
+
+def _rows(n: int, m: int, on: Sequence[Sequence[Cube]], dc: Sequence[Sequence[Cube]]) -> set[tuple]:
+    """Rows for the compiled minimizer: identical input parts merged across outputs, ON and DC rows apart."""
+    rows: set[tuple] = set()
+    for sets, mark in ((on, 1), (dc, 2)):
+        merged = merge_identical([c.with_outputs(1 << j) for j in range(m) for c in sets[j]])
+        for c in merged:
+            rows.add((encode_cube(c, n), tuple(mark if c.outputs >> j & 1 else 0 for j in range(m))))
+    return rows
+
+
+def _espresso_jobs(jobs: list[tuple[int, int, set[tuple], bool]]) -> list[list[tuple]]:
+    """Run the compiled minimizer on each job ``(n, m, rows, has_dc)``; results as sorted row lists."""
+    from pyeda.boolalg.espresso import DTYPE, FTYPE, espresso, set_config
+
+    out = []
+    for n, m, rows, has_dc in jobs:
+        if not any(1 in outpart for _, outpart in rows):
+            out.append([])
+            continue
+        set_config(**ESPRESSO_DEFAULTS)
+        res = espresso(n, m, rows, intype=FTYPE | DTYPE if has_dc else FTYPE)
+        out.append(sorted(res))
+    return out
+
+
+def _child(conn: Any, fn: Callable[..., Any], args: tuple) -> None:  # pragma: no cover - runs in the child
+    try:
+        conn.send(("ok", fn(*args)))
+    except BaseException as exc:  # noqa: BLE001 - everything is reported to the parent
+        conn.send(("error", f"{type(exc).__name__}: {exc}"))
+    finally:
+        conn.close()
+
+
+def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str) -> Any:
+    """Call ``fn(*args)`` in a child process; its result, or :class:`SolverFailure` on crash, error or timeout.
+
+    Uses ``fork`` where available (a few milliseconds), ``spawn`` elsewhere. ``fn`` and its result must pickle.
+    """
+    methods = multiprocessing.get_all_start_methods()
+    ctx = multiprocessing.get_context("fork" if "fork" in methods else "spawn")
+    recv, send = ctx.Pipe(duplex=False)
+    proc = ctx.Process(target=_child, args=(send, fn, args), daemon=True)
+    proc.start()
+    send.close()
+    try:
+        if not recv.poll(timeout):
+            raise SolverFailure(f"{what} did not finish within {timeout:g} s; raise --time-limit or simplify the input")
+        try:
+            status, payload = recv.recv()
+        except EOFError:
+            proc.join(5)
+            raise SolverFailure(
+                f"{what} crashed (exit status {proc.exitcode}) on this input; the cover could not be computed"
+            ) from None
+    finally:
+        if proc.is_alive():
+            proc.kill()
+        proc.join(5)
+        recv.close()
+    if status != "ok":
+        raise SolverFailure(f"{what} failed: {payload}")
+    return payload
+
+
+def espresso_cubes(fs: FunctionSets, per_output: bool, options: MinimizeOptions) -> list[Cube]:
+    """Minimized cubes for ``fs``: jointly (shared terms) or each output alone, identical terms merged."""
+    n, m = fs.n, fs.m
+    jobs: list[tuple[int, int, set[tuple], bool]] = []
+    if per_output:
+        for j in range(m):
+            one_on = [[c.with_outputs(1) for c in fs.on[j]]]
+            one_dc = [[c.with_outputs(1) for c in fs.dc[j]]]
+            jobs.append((n, 1, _rows(n, 1, one_on, one_dc), bool(fs.dc[j])))
+    else:
+        jobs.append((n, m, _rows(n, m, fs.on, fs.dc), any(fs.dc)))
+    if options.isolate:
+        results = run_isolated(_espresso_jobs, (jobs,), options.time_limit, "the heuristic minimizer")
+    else:
+        results = _espresso_jobs(jobs)
+    cubes: list[Cube] = []
+    for k, res in enumerate(results):
+        for inpart, outpart in res:
+            c = decode_row(inpart, outpart)
+            if per_output:
+                c = c.with_outputs((1 << k) if c.outputs else 0)
+            if c.outputs:
+                cubes.append(c)
+    return sort_cubes(merge_identical(cubes))
+
+
+def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
+    """Alias of :func:`espresso_cubes` taking the cost model from ``options``."""
+    return espresso_cubes(fs, options.cost == "per-output", options)
+
+
+def _cube_check(fs: FunctionSets, cubes: Sequence[Cube]) -> str | None:
+    """Cube-based check of ON ⊆ cover ⊆ ON ∪ DC per output (tautology checks; no enumeration)."""
+    for j in range(fs.m):
+        mine = [c for c in cubes if c.outputs >> j & 1]
+        allowed = list(fs.on[j]) + list(fs.dc[j])
+        for c in mine:
+            if not cube_list_contains(allowed, c):
+                return f"output {j}: cover cube {c!r} reaches the OFF set"
+        for c in fs.on[j]:
+            if not cube_list_contains(mine, c):
+                return f"output {j}: ON cube {c!r} is not covered"
+    return None
+
+
+def verify_cover(table: Table, cover: Cover, what: str) -> None:
+    """Raise :class:`SolverFailure` unless ``cover`` realizes ``table`` (ON ⊆ cover ⊆ ON ∪ DC, inversion honoured).
+
+    Exhaustive bit-parallel check up to :data:`plaforge.table.DEFAULT_ENUM_LIMIT` inputs, cube-based above.
+    """
+    if table.n_inputs <= DEFAULT_ENUM_LIMIT:
+        from ..verify.equivalence import check_cover
+
+        verdict = check_cover(table, cover)
+        bad = [o for o in verdict.outputs if not o.passed]
+        if bad:
+            o = bad[0]
+            raise SolverFailure(f"{what} returned a wrong cover: output {o.name!r} fails at point {o.failure}")
+        return
+    problem = _cube_check(table_sets(table, cover.inverted), cover.cubes)
+    if problem:
+        raise SolverFailure(f"{what} returned a wrong cover: {problem}")
+
+
+def trivial_lower_bound(fs: FunctionSets) -> int:
+    """Rows every cover needs at least, from the cubes alone: 1 if some output has a nonempty ON set."""
+    return 1 if any(fs.on) else 0
+
+
+def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0) -> Cover:
+    """Heuristic cover of ``table`` (outputs in ``inverted`` realized in complement), verified."""
+    t0 = time.perf_counter()
+    fs = table_sets(table, inverted)
+    cubes = heuristic_cubes(fs, options)
+    cover = Cover(
+        table.input_names, table.output_names, tuple(cubes), inverted=inverted, method="heuristic",
+        optimal=False, lower_bound=trivial_lower_bound(fs), seconds=0.0, cost=options.cost,
+    )
+    verify_cover(table, cover, "the heuristic minimizer")
+    return cover.with_(seconds=time.perf_counter() - t0)

@@ -1,0 +1,58 @@
+"""Figures of a cover: the ``minimize --json`` contract object and the short human summary."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from ..cube import Cover
+
+__all__ = ["cover_summary", "format_summary"]
+
+
+def cover_summary(cover: Cover) -> dict[str, Any]:
+    """The DESIGN.md ``minimize --json`` object: exactly the contract keys, in contract order.
+
+    >>> from plaforge.cube import Cover, Cube
+    >>> s = cover_summary(Cover(("a", "b"), ("y",), (Cube.parse("11"),), method="heuristic"))
+    >>> s["rows"], s["terms"], s["literals"]
+    (1, {'y': 1}, 2)
+    """
+    return {
+        "inputs": cover.n_inputs,
+        "outputs": cover.n_outputs,
+        "rows": cover.rows,
+        "terms": cover.terms(),
+        "literals": cover.literals,
+        "method": cover.method,
+        "optimal": bool(cover.optimal),
+        "lower_bound": int(cover.lower_bound),
+        "seconds": round(float(cover.seconds), 3),
+    }
+
+
+def format_summary(cover: Cover) -> str:
+    """A few lines for people: rows, terms per output, literals, method, optimality or gap, seconds."""
+    s = cover_summary(cover)
+    if cover.cost == "per-output":
+        total = sum(s["terms"].values())
+        count = f"{total} product terms counted per output ({s['rows']} distinct rows)"
+    else:
+        total = s["rows"]
+        count = f"{s['rows']} rows (distinct product terms)"
+    if s["optimal"]:
+        verdict = "proven minimum"
+    elif s["method"] == "exact":
+        gap = total - s["lower_bound"]
+        verdict = f"not proven: lower bound {s['lower_bound']}, gap {gap}"
+    else:
+        verdict = "heuristic, not proven minimum"
+    terms = ", ".join(f"{k} {v}" for k, v in s["terms"].items())
+    lines = [
+        f"{count}, {s['literals']} literals, {s['inputs']} inputs -> {s['outputs']} outputs",
+        f"terms per output: {terms}",
+    ]
+    if cover.inverted:
+        inv = [name for j, name in enumerate(cover.output_names) if cover.is_inverted(j)]
+        lines.append(f"realized in complement: {', '.join(inv)}")
+    lines.append(f"{s['method']} ({cover.cost} cost): {verdict}; {s['seconds']:.3f} s")
+    return "\n".join(lines)
