@@ -296,6 +296,7 @@ def plan_for(table: Table, artifact: Cover | LutNetwork) -> LogicPlan:
 class _Call:
     func: str
     args: tuple[_Node, ...]
+    tail: str = ""  # a trailer after the closing bracket, such as ".any()"
 
 
 @dataclass(frozen=True, slots=True)
@@ -311,7 +312,7 @@ def _flat(node: _Node) -> str:
     if isinstance(node, str):
         return node
     if isinstance(node, _Call):
-        return f"{node.func}({', '.join(_flat(a) for a in node.args)})"
+        return f"{node.func}({', '.join(_flat(a) for a in node.args)}){node.tail}"
     return f" {node.op} ".join(_flat(a) for a in node.operands)
 
 
@@ -337,7 +338,7 @@ def _layout(node: _Node, indent: int, prefix: str, suffix: str) -> list[str]:
     else:
         for a in node.args:
             lines += _layout(a, inner, "", ",")
-    lines.append(pad + ")" + suffix)
+    lines.append(pad + ")" + node.tail + suffix)
     return lines
 
 
@@ -387,7 +388,14 @@ def _comb(target: str, expr: _Node) -> list[str]:
     return _layout(_Call(f"{target}.eq", (expr,)), 8, "m.d.comb += ", "")
 
 
+OR_CHAIN_LIMIT = 16
+"""Outputs of more terms are written ``Cat(t0, t1, ...).any()``: an ``|`` chain nests one operator per term, and
+Amaranth's tools recurse through that nesting (hundreds of terms would exceed Python's recursion limit)."""
+
+
 def _or(terms: Sequence[str]) -> _Node:
+    if len(terms) > OR_CHAIN_LIMIT:
+        return _Call("Cat", tuple(terms), ".any()")
     return terms[0] if len(terms) == 1 else _Chain("|", tuple(terms))
 
 
@@ -404,7 +412,7 @@ def _elaborate_body(plan: LogicPlan, table: Table) -> list[str]:
             expr: _Node = "1" if not lits else lits[0] if len(lits) == 1 else _Chain("&", tuple(lits))
             lines += _comb(f"t{t}", expr)
         lines.append("")
-        lines.append("        # Outputs: the OR of their product terms.")
+        lines.append("        # Outputs: the OR of their product terms (Cat(...).any() when there are many).")
         for j, (ts, inverted) in enumerate(plan.outputs):
             target = _out_ref(plan, j)
             names = [f"t{t}" for t in ts]
@@ -508,7 +516,8 @@ def module_source(
     name = class_name if class_name is not None else class_name_for(source_name or table.source)
     if not name.isidentifier() or keyword.iskeyword(name) or name in _FILE_NAMES or not name.isascii():
         raise PlaforgeError(f"class name {name!r} is not usable; give a Python identifier such as 'AddressDecoder'")
-    names = ["Module", "Signal"] + (["Cat", "Const"] if plan.style == "lut" else [])
+    many = plan.style == "sop" and any(len(ts) > OR_CHAIN_LIMIT for ts, _ in plan.outputs)
+    names = ["Module", "Signal"] + (["Cat", "Const"] if plan.style == "lut" else ["Cat"] if many else [])
     lines = _docstring(plan, table, name, source_name, source_digest)
     lines += ["", f"from amaranth.hdl import {', '.join(sorted(names))}", "from amaranth.lib import wiring",
               "from amaranth.lib.wiring import In, Out", "", f'__all__ = ["{name}"]', ""]
@@ -605,8 +614,11 @@ def build_component(table: Table, artifact: Cover | LutNetwork) -> Any:
                         m.d.comb += out_bits[j].eq(1 if inverted else 0)
                         continue
                     acc: Any = terms[ts[0]]
-                    for t in ts[1:]:
-                        acc = acc | terms[t]
+                    if len(ts) > OR_CHAIN_LIMIT:
+                        acc = Cat(*(terms[t] for t in ts)).any()
+                    else:
+                        for t in ts[1:]:
+                            acc = acc | terms[t]
                     if inverted:
                         inv = Signal(name=f"inv{j}")
                         m.d.comb += inv.eq(acc)
