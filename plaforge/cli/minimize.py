@@ -2,9 +2,12 @@
 
 from __future__ import annotations
 
+import json
+import sys
+
 import click
 
-from . import cli, not_built
+from . import cli
 
 
 @cli.command("minimize")
@@ -20,4 +23,20 @@ from . import cli, not_built
 def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, cost: str, phase: bool,
                  as_json: bool) -> None:
     """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
-    not_built("minimization")
+    from ..fileio import write_text_atomic
+    from ..formats import read_spec
+    from ..formats.pla import write_pla
+    from ..minimize import MinimizeOptions, cover_summary, format_summary, minimize
+
+    table = read_spec(spec)
+    options = MinimizeOptions(exact=exact, time_limit=time_limit, cost=cost,  # type: ignore[arg-type]
+                              phase=phase, progress=exact and sys.stderr.isatty())
+    cover = minimize(table, options)
+    if out is not None:
+        write_text_atomic(out, write_pla(cover, spec))
+    if as_json:
+        click.echo(json.dumps(cover_summary(cover)))
+    else:
+        click.echo(format_summary(cover))
+        if out is not None:
+            click.echo(f"cover written to {out}")

@@ -14,6 +14,13 @@ outputs (one row ``(c, outputs where c is ON)`` instead of one row per output), 
 multi-output function and shares product terms between outputs. Under the ``per-output`` cost each output is
 minimized alone and identical terms are merged only afterwards (they still count once per output).
 
+Starting covers
+---------------
+The minimizer is a local descent, so where it starts matters. Under the shared cost two starts are tried and the
+better result kept (fewer rows, then fewer literals): the Table's own cubes as above, and, for tables of at most
+:data:`SIGNATURE_LIMIT` inputs, the regions of constant output signature (which outputs are ON and which DC) written
+as cubes, each row carrying the whole signature. Up to the same width each start is followed by one more descent from its own result.
+
 Isolation and trust
 -------------------
 The compiled minimizer keeps global configuration (``set_config``), which is reset to its defaults before every
@@ -42,6 +49,9 @@ __all__ = [
     "ESPRESSO_DEFAULTS", "FunctionSets", "table_sets", "encode_cube", "decode_row", "espresso_cubes",
     "heuristic_cubes", "merge_identical", "sort_cubes", "verify_cover", "minimize_heuristic",
 ]
+
+#: Most inputs for which the signature-region starting cover is also tried (it builds packed truth tables).
+SIGNATURE_LIMIT = 16
 
 #: pyeda's own defaults for the compiled minimizer's global switches (restored before every call).
 ESPRESSO_DEFAULTS: MappingProxyType[str, bool] = MappingProxyType({
@@ -130,7 +140,12 @@ def _rows(n: int, m: int, on: Sequence[Sequence[Cube]], dc: Sequence[Sequence[Cu
 
 
 def _espresso_jobs(jobs: list[tuple[int, int, set[tuple], bool]]) -> list[list[tuple]]:
-    """Run the compiled minimizer on each job ``(n, m, rows, has_dc)``; results as sorted row lists."""
+    """Run the compiled minimizer on each job ``(n, m, rows, has_dc)``; results as sorted row lists.
+
+    Each job is minimized, then (up to :data:`SIGNATURE_LIMIT` inputs, where it is cheap) its result is fed back
+    once with the same don't-care rows (a second descent from a prime, irredundant start often drops a few more
+    rows); the better of the two is kept.
+    """
     from pyeda.boolalg.espresso import DTYPE, FTYPE, espresso, set_config
 
     out = []
@@ -138,10 +153,64 @@ def _espresso_jobs(jobs: list[tuple[int, int, set[tuple], bool]]) -> list[list[t
         if not any(1 in outpart for _, outpart in rows):
             out.append([])
             continue
+        kind = FTYPE | DTYPE if has_dc else FTYPE
         set_config(**ESPRESSO_DEFAULTS)
-        res = espresso(n, m, rows, intype=FTYPE | DTYPE if has_dc else FTYPE)
-        out.append(sorted(res))
+        first = sorted(espresso(n, m, rows, intype=kind))
+        if n > SIGNATURE_LIMIT:
+            out.append(first)
+            continue
+        dc_rows = {(inp, tuple(2 if v == 2 else 0 for v in outp)) for inp, outp in rows if 2 in outp}
+        set_config(**ESPRESSO_DEFAULTS)
+        second = sorted(espresso(n, m, set(first) | dc_rows, intype=kind))
+        out.append(second if _row_cost(second) < _row_cost(first) else first)
     return out
+
+
+def _row_cost(rows: Sequence[tuple]) -> tuple[int, int]:
+    return len(rows), sum(1 for inp, _ in rows for v in inp if v != 3)
+
+
+def _signature_rows(fs: FunctionSets) -> set[tuple] | None:
+    """Rows from the regions where the output signature (ON/DC per output) is constant; ``None`` if too wide.
+
+    Only for ``n <= SIGNATURE_LIMIT`` (the packed truth tables are built from the cubes): each region is written as
+    cubes, each row carrying the whole signature (``1`` ON, ``2`` DC), the joint view of the function.
+    """
+    n, m = fs.n, fs.m
+    if n > SIGNATURE_LIMIT or m > 64:
+        return None
+    import numpy as np
+
+    from ..table import bool_array_to_cubes, cubes_bits, unpack_bits
+
+    on_sig = np.zeros(1 << n, dtype=np.uint64)
+    dc_sig = np.zeros(1 << n, dtype=np.uint64)
+    for j in range(m):
+        bit = np.uint64(1 << j)
+        dc = unpack_bits(cubes_bits(fs.dc[j], n), n)
+        on = unpack_bits(cubes_bits(fs.on[j], n), n) & ~dc
+        on_sig[on] |= bit
+        dc_sig[dc] |= bit
+    pairs = np.stack([on_sig, dc_sig], axis=1)
+    uniq, inverse = np.unique(pairs, axis=0, return_inverse=True)
+    inverse = inverse.reshape(-1)
+    rows: set[tuple] = set()
+    for k, (on_m, dc_m) in enumerate(uniq.tolist()):
+        if not on_m:
+            continue
+        outpart = tuple(1 if on_m >> j & 1 else 2 if dc_m >> j & 1 else 0 for j in range(m))
+        for c in bool_array_to_cubes(inverse == k, n):
+            rows.add((encode_cube(c, n), outpart))
+        if dc_m:
+            dc_part = tuple(2 if dc_m >> j & 1 else 0 for j in range(m))
+            for c in bool_array_to_cubes(inverse == k, n):
+                rows.add((encode_cube(c, n), dc_part))
+    for k, (on_m, dc_m) in enumerate(uniq.tolist()):
+        if dc_m and not on_m:
+            dc_part = tuple(2 if dc_m >> j & 1 else 0 for j in range(m))
+            for c in bool_array_to_cubes(inverse == k, n):
+                rows.add((encode_cube(c, n), dc_part))
+    return rows
 
 
 def _child(conn: Any, fn: Callable[..., Any], args: tuple) -> None:  # pragma: no cover - runs in the child
@@ -195,10 +264,15 @@ def espresso_cubes(fs: FunctionSets, per_output: bool, options: MinimizeOptions)
             jobs.append((n, 1, _rows(n, 1, one_on, one_dc), bool(fs.dc[j])))
     else:
         jobs.append((n, m, _rows(n, m, fs.on, fs.dc), any(fs.dc)))
+        sig = _signature_rows(fs)
+        if sig is not None:
+            jobs.append((n, m, sig, any(fs.dc)))
     if options.isolate:
         results = run_isolated(_espresso_jobs, (jobs,), options.time_limit, "the heuristic minimizer")
     else:
         results = _espresso_jobs(jobs)
+    if not per_output:
+        results = [min(results, key=_row_cost)]
     cubes: list[Cube] = []
     for k, res in enumerate(results):
         for inpart, outpart in res:
