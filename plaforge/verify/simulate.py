@@ -103,16 +103,26 @@ def _port_signals(table: Table, component: Any, where: str) -> tuple[list[Port],
     for p in ports_of(table):
         if p.name not in members:
             have = sorted(members.keys())
+            _silence(component)
             raise CheckFailed(f"{where}: no port {p.name!r} for spec {p.spec_name!r}; the component has {have}")
         mem = members[p.name]
         want = wiring.In if p.direction == "in" else wiring.Out
         if not mem.is_port or mem.flow != want or _width(mem.shape) != p.width:
+            _silence(component)
             raise CheckFailed(
                 f"{where}: port {p.name!r} is {mem!r}; the spec needs {want.name}({p.width}) for {p.spec_name!r}"
             )
         (ins if p.direction == "in" else outs).append(p)
         (in_sigs if p.direction == "in" else out_sigs).append(getattr(component, p.name))
     return ins, outs, in_sigs, out_sigs
+
+
+def _silence(component: Any) -> None:
+    """Mark a component we will not simulate as used, so Amaranth does not warn that it was never elaborated."""
+    try:
+        component._MustUse__silence = True  # Amaranth's own switch for its unused-elaboratable warning
+    except AttributeError:
+        pass
 
 
 def _width(shape: Any) -> int:
