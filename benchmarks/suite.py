@@ -22,7 +22,7 @@ import numpy as np
 from plaforge.cube import Cube
 from plaforge.table import Table
 
-__all__ = ["SuiteEntry", "SUITE", "suite_names"]
+__all__ = ["SUITE", "SuiteEntry", "suite_names"]
 
 Arrays = list[np.ndarray]
 

@@ -24,7 +24,7 @@ from ..table import Table
 from .options import CostModel, MinimizeOptions
 from .summary import cover_summary, format_summary
 
-__all__ = ["minimize", "MinimizeOptions", "CostModel", "cover_summary", "format_summary"]
+__all__ = ["CostModel", "MinimizeOptions", "cover_summary", "format_summary", "minimize"]
 
 
 def minimize(table: Table, options: MinimizeOptions | None = None) -> Cover:

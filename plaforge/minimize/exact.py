@@ -57,8 +57,17 @@ from .heuristic import FunctionSets, espresso_cubes, merge_identical, sort_cubes
 from .options import MinimizeOptions
 from .progress import Progress
 
-__all__ = ["ternary_tags", "multi_output_primes", "Primes", "CoverProblem", "build_problem", "reduce_problem",
-           "ExactResult", "solve_exact", "minimize_exact"]
+__all__ = [
+    "CoverProblem",
+    "ExactResult",
+    "Primes",
+    "build_problem",
+    "minimize_exact",
+    "multi_output_primes",
+    "reduce_problem",
+    "solve_exact",
+    "ternary_tags",
+]
 
 
 # -- ternary table and primes --------------------------------------------------------------------------------------
@@ -405,7 +414,7 @@ def _cp_sat(pb: CoverProblem, cols: list[int], rows: list[int], hint: set[int], 
 
     class _Seen(cp_model.CpSolverSolutionCallback):
         def on_solution_callback(self) -> None:
-            progress.update(**{f"best {what}": int(round(self.ObjectiveValue()))})
+            progress.update(**{f"best {what}": round(self.ObjectiveValue())})
 
     solver.best_bound_callback = lambda b: progress.update(**{f"{what} bound": math.ceil(b - 1e-6)})
     status = solver.Solve(model, _Seen())

@@ -46,8 +46,17 @@ from ..table import DEFAULT_ENUM_LIMIT, Table
 from .options import MinimizeOptions
 
 __all__ = [
-    "ESPRESSO_DEFAULTS", "FunctionSets", "table_sets", "encode_cube", "decode_row", "espresso_cubes",
-    "heuristic_cubes", "merge_identical", "sort_cubes", "verify_cover", "minimize_heuristic",
+    "ESPRESSO_DEFAULTS",
+    "FunctionSets",
+    "decode_row",
+    "encode_cube",
+    "espresso_cubes",
+    "heuristic_cubes",
+    "merge_identical",
+    "minimize_heuristic",
+    "sort_cubes",
+    "table_sets",
+    "verify_cover",
 ]
 
 #: Most inputs for which the signature-region starting cover is also tried (it builds packed truth tables).

@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Literal
 
-__all__ = ["MinimizeOptions", "CostModel"]
+__all__ = ["CostModel", "MinimizeOptions"]
 
 CostModel = Literal["shared", "per-output"]
 

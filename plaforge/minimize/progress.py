@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import time
 from types import TracebackType
-from typing import Any
+from typing import Any, Self
 
 __all__ = ["Progress"]
 
@@ -27,7 +27,7 @@ class Progress:
         self._live: Any = None
         self._t0 = time.monotonic()
 
-    def __enter__(self) -> Progress:
+    def __enter__(self) -> Self:
         if self.enabled:
             from rich.console import Console
             from rich.live import Live
