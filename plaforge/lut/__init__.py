@@ -1,5 +1,24 @@
-"""k-input LUT INIT vectors and LUT networks."""
+"""k-input LUT INIT vectors and LUT networks.
 
+Public API
+----------
+:func:`map_luts`
+    A table as one shared network of k-LUTs (functional decomposition, cut-based mapping), re-checked.
+:class:`LutOptions`
+    Its options.
+:func:`format_init`, :func:`pad_init`, :func:`c_header`
+    INIT text for designs (Verilog-style sized hex, Python int, bit string), padding to a physical k, and a C
+    header of constants.
+"""
+
+from .export import c_header, format_listing, net_init_constants
+from .init import INIT_STYLES, format_init, pad_init
+from .mapper import lower_bounds, map_luts
 from .network import Lut, LutNetwork, init_hex
+from .options import LutOptions
+from .verify_sat import check_network_any, check_network_sat
 
-__all__ = ["Lut", "LutNetwork", "init_hex"]
+__all__ = [
+    "Lut", "LutNetwork", "init_hex", "map_luts", "LutOptions", "lower_bounds", "format_init", "pad_init",
+    "INIT_STYLES", "c_header", "format_listing", "net_init_constants", "check_network_any", "check_network_sat",
+]

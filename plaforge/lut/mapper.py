@@ -1,0 +1,304 @@
+"""``map_luts``: a table's outputs as one shared network of k-input LUTs.
+
+Pipeline
+--------
+1. Per output, its support ``S_j`` (:meth:`plaforge.table.Table.support`: don't-cares used greedily to drop
+   inputs). Constants and plain inputs need no LUT; a complemented input is one 1-input LUT (an inverter).
+2. Outputs with ``|S_j| <= options.decompose_limit``, in order of growing support, are realized by functional
+   decomposition on their truth tables (:mod:`plaforge.lut.decompose`), every output reusing the LUTs built for
+   the earlier ones (identical or don't-care-compatible functions share one LUT; a LUT that computes a useful
+   sub-function, such as a carry, is reused as a signal). An output with ``|S_j| <= k`` is one LUT.
+3. Wider outputs are realized on a multi-level subject graph built from a two-level cover (each product term a
+   tree of 2-input ANDs, each output an OR tree) and mapped by cuts (:mod:`plaforge.lut.cuts`).
+4. When ``options.remap`` is set, the whole network is remapped by cuts (depth-optimal labels, then area
+   recovery), and the better network by ``options.objective`` is kept.
+5. Dead LUTs are removed, LUTs are renamed ``n0, n1, ...`` in topological order, and the network is re-checked
+   against the table.
+
+Lower bounds (``LutNetwork.lower_bounds``)
+------------------------------------------
+``e_j`` is the number of *essential* inputs of output ``j``: inputs ``i`` with an ON point and an OFF point that
+differ in input ``i`` alone; every realization depends on them, whatever the don't-cares become (without
+don't-cares ``e_j = |S_j|``).
+
+* ``count >= max_j ceil((e_j - 1) / (k - 1))``: a tree of ``c`` k-LUTs has at most ``c (k - 1) + 1`` leaves;
+* ``count >= D``: ``D`` outputs that pairwise no single function can serve (an ON point of one is an OFF point of
+  the other), none realizable without a LUT (a constant or a plain input), need ``D`` distinct LUTs driving
+  them (a greedy pairwise-incompatible set is used);
+* ``depth >= max_j ceil(log_k e_j)``: ``d`` levels of k-LUTs reach at most ``k**d`` inputs.
+The reported count bound is the larger of the first two.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections.abc import Sequence
+
+import numpy as np
+
+from ..cube import Cube, Cover
+from ..errors import CheckFailed
+from ..table import Table, cubes_bits, unpack_bits
+from .decompose import Decomposer, NetworkBuilder, Pending
+from .network import Lut, LutNetwork
+from .options import LutOptions
+
+__all__ = ["map_luts", "lower_bounds", "essential_inputs", "tidy_network"]
+
+
+def _project(cubes: Sequence[Cube], support: Sequence[int]) -> list[Cube]:
+    """Cubes restricted to ``support`` and renumbered so that ``support[b]`` becomes input ``b``."""
+    out = []
+    for c in cubes:
+        care = value = 0
+        for b, i in enumerate(support):
+            if c.care >> i & 1:
+                care |= 1 << b
+                value |= (c.value >> i & 1) << b
+        out.append(Cube(care, value))
+    return out
+
+
+def _local_sets(table: Table, j: int, support: Sequence[int]) -> tuple[np.ndarray, np.ndarray]:
+    """ON and OFF of output ``j`` over its support as boolean arrays (inputs outside the support projected away)."""
+    s = len(support)
+    on = unpack_bits(cubes_bits(_project(table.on_cubes(j), support), s), s)
+    off = unpack_bits(cubes_bits(_project(table.off_cubes(j), support), s), s)
+    if (on & off).any():
+        raise AssertionError(f"support of output {table.output_names[j]!r} drops a needed input")
+    return on, off
+
+
+def essential_inputs(table: Table, j: int) -> int:
+    """Bitmask of inputs every realization of output ``j`` depends on (see module docs). Cube operations only."""
+    on, off = table.on_cubes(j), table.off_cubes(j)
+    mask = 0
+    for i in range(table.n_inputs):
+        bit = 1 << i
+        for c in on:
+            if c.care & bit:
+                flipped = Cube(c.care, c.value ^ bit)
+                if any(flipped.intersects(o) for o in off):
+                    mask |= bit
+                    break
+    return mask
+
+
+def _trivial(table: Table, j: int) -> bool:
+    """Output ``j`` can be a constant or a plain input (no LUT at all)."""
+    on, off = table.on_cubes(j), table.off_cubes(j)
+    if not on or not off:
+        return True
+    for i in range(table.n_inputs):
+        bit = 1 << i
+        if all(c.care & bit and c.value & bit for c in on) and all(c.care & bit and not c.value & bit for c in off):
+            return True
+    return False
+
+
+def _incompatible(table: Table, a: int, b: int) -> bool:
+    return any(x.intersects(y) for x in table.on_cubes(a) for y in table.off_cubes(b)) or any(
+        x.intersects(y) for x in table.off_cubes(a) for y in table.on_cubes(b))
+
+
+def lower_bounds(table: Table, k: int) -> dict[str, int]:
+    """Proven lower bounds on LUT count and depth for ``table`` with k-LUTs (see module docs).
+
+    Returns
+    -------
+    dict
+        ``{"count": c, "depth": d, "count_cone": ..., "count_outputs": ...}``; ``count`` is the larger of the two
+        count bounds.
+    """
+    cone = depth = 0
+    chosen: list[int] = []
+    for j in range(table.n_outputs):
+        e = essential_inputs(table, j).bit_count()
+        if e >= 2:
+            cone = max(cone, math.ceil((e - 1) / (k - 1)))
+            depth = max(depth, math.ceil(math.log(e, k) - 1e-9))
+        if e >= 1 and not _trivial(table, j) and all(_incompatible(table, j, c) for c in chosen):
+            chosen.append(j)
+    if any(not _trivial(table, j) for j in range(table.n_outputs)):
+        depth = max(depth, 1)
+    return {"count": max(cone, len(chosen)), "depth": depth, "count_cone": cone, "count_outputs": len(chosen)}
+
+
+def _prefix(input_names: Sequence[str], base: str = "n") -> str:
+    """``base`` followed by as many ``_`` as needed so that no input is named ``prefix`` plus digits."""
+    prefix = base
+    while any(re.fullmatch(re.escape(prefix) + r"\d+", name) for name in input_names):
+        prefix += "_"
+    return prefix
+
+
+def tidy_network(net: LutNetwork, prefix: str = "n") -> LutNetwork:
+    """Drop LUTs no output needs, drop fan-ins a LUT ignores, and rename LUTs ``prefix0, prefix1, ...`` in order.
+
+    The function of every output is unchanged; LUT order stays topological.
+    """
+    from .init import drop_unused_inputs
+
+    by_name = {lut.name: lut for lut in net.luts}
+    # simplify INITs first (fan-ins ignored), then find what is live
+    simple: dict[str, Lut] = {}
+    for lut in net.luts:
+        init, keep = drop_unused_inputs(lut.init, len(lut.inputs))
+        simple[lut.name] = Lut(lut.name, tuple(lut.inputs[b] for b in keep), init)
+    live: set[str] = set()
+    stack = [d for d in net.drivers if d in by_name]
+    while stack:
+        x = stack.pop()
+        if x in live:
+            continue
+        live.add(x)
+        stack.extend(i for i in simple[x].inputs if i in by_name)
+    rename: dict[str, str] = {}
+    luts: list[Lut] = []
+    for lut in net.luts:
+        if lut.name not in live:
+            continue
+        s = simple[lut.name]
+        new = f"{prefix}{len(luts)}"
+        rename[lut.name] = new
+        luts.append(Lut(new, tuple(rename.get(i, i) for i in s.inputs), s.init))
+    drivers = tuple(rename.get(d, d) for d in net.drivers)
+    return LutNetwork(net.k, net.input_names, net.output_names, tuple(luts), drivers, dict(net.lower_bounds),
+                      net.method)
+
+
+def _resolve_constant_luts(net: LutNetwork) -> LutNetwork:
+    """Replace 0-input LUTs by constants and buffers (1-input INIT ``0b10``) by their fan-in."""
+    alias: dict[str, str] = {}
+    luts = []
+    for lut in net.luts:
+        ins = tuple(alias.get(i, i) for i in lut.inputs)
+        if not ins:
+            alias[lut.name] = "1" if lut.init & 1 else "0"
+            continue
+        if len(ins) == 1 and lut.init == 0b10:
+            alias[lut.name] = ins[0]
+            continue
+        if any(i in ("0", "1") for i in ins):
+            # fold constant fan-ins
+            init, kept = 0, [b for b, i in enumerate(ins) if i not in ("0", "1")]
+            fixed = sum(1 << b for b, i in enumerate(ins) if i == "1")
+            for q in range(1 << len(kept)):
+                p = fixed
+                for nb, b in enumerate(kept):
+                    if q >> nb & 1:
+                        p |= 1 << b
+                if lut.init >> p & 1:
+                    init |= 1 << q
+            ins = tuple(ins[b] for b in kept)
+            if not ins:
+                alias[lut.name] = "1" if init & 1 else "0"
+                continue
+            luts.append(Lut(lut.name, ins, init))
+            continue
+        luts.append(Lut(lut.name, ins, lut.init))
+    drivers = tuple(alias.get(d, d) for d in net.drivers)
+    return LutNetwork(net.k, net.input_names, net.output_names, tuple(luts), drivers, dict(net.lower_bounds),
+                      net.method)
+
+
+def _cover_for(table: Table, outputs: Sequence[int]) -> Cover:
+    """A two-level cover of ``table`` (the project's minimizer when present, else the ON cubes as given)."""
+    try:
+        from ..minimize import minimize
+    except ImportError:  # pragma: no cover - minimizer not installed yet
+        minimize = None  # type: ignore[assignment]
+    if minimize is not None:
+        return minimize(table)
+    cubes = tuple(c for j in outputs for c in table.on_cubes(j))
+    return Cover(table.input_names, table.output_names, cubes, method="table")
+
+
+def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> LutNetwork:
+    """Map every output of ``table`` onto one shared network of k-input LUTs.
+
+    Parameters
+    ----------
+    table : Table
+        The function; never modified. Don't-cares are used freely; every output satisfies
+        ``ON ⊆ network ⊆ ON ∪ DC``.
+    k : int
+        LUT size, 2 to 8.
+    options : LutOptions, optional
+        Decomposition limits, objective, cut-pass settings, verification.
+
+    Returns
+    -------
+    LutNetwork
+        LUTs named ``n0, n1, ...`` in topological order (another prefix when an input is already so named),
+        ``drivers`` per output, ``lower_bounds`` (``count``, ``depth`` and their parts) and ``method``.
+
+    Raises
+    ------
+    plaforge.errors.CheckFailed
+        When ``options.verify`` is set and the network does not match the table (a bug).
+
+    Examples
+    --------
+    >>> from plaforge.table import Table
+    >>> t = Table.from_function(["a", "b"], ["y"], lambda p: [(p & 1 > 0) & (p & 2 > 0)])
+    >>> net = map_luts(t, k=4)
+    >>> [(lut.name, lut.inputs, hex(lut.init)) for lut in net.luts], net.drivers
+    ([('n0', ('a', 'b'), '0x8')], ('n0',))
+    """
+    if not isinstance(table, Table):
+        raise TypeError(f"map_luts() needs a Table, not {type(table).__name__}")
+    if not isinstance(k, int) or isinstance(k, bool):
+        raise TypeError(f"k must be an int, not {k!r}")
+    if not 2 <= k <= 8:
+        raise ValueError(f"k must be between 2 and 8, not {k!r}")
+    opts = options if options is not None else LutOptions()
+    if not isinstance(opts, LutOptions):
+        raise TypeError(f"options must be LutOptions, not {type(opts).__name__}")
+    prefix = _prefix(table.input_names)
+    builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@t"), global_limit=max(opts.decompose_limit, 1))
+    dec = Decomposer(builder, k, budget=opts.bound_set_budget, beam=opts.beam)
+    m = table.n_outputs
+    supports = [table.support(j) for j in range(m)]
+    sizes = [s.bit_count() for s in supports]
+    narrow = sorted((j for j in range(m) if sizes[j] <= opts.decompose_limit), key=lambda j: (sizes[j], j))
+    wide = [j for j in range(m) if sizes[j] > opts.decompose_limit]
+    drivers: list[str] = ["0"] * m
+    jobs = []
+    for j in narrow:
+        sup = tuple(i for i in range(table.n_inputs) if supports[j] >> i & 1)
+        u = builder.universe(sup)
+        on, off = _local_sets(table, j, sup)
+        jobs.append((j, u, on, off))
+    for x, (j, u, on, off) in enumerate(jobs):
+        dec.pending = [Pending(uu, a, b) for _, uu, a, b in jobs[x + 1:]]
+        sigs = [table.input_names[i] for i in u.inputs]
+        drivers[j] = dec.realize(u, sigs, on, off)
+    luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
+    method = "decomposition"
+    net = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {}, method)
+    if wide:
+        from .cuts import map_cover_outputs
+
+        cover = _cover_for(table, wide)
+        net = map_cover_outputs(net, cover, wide, opts)
+    if opts.remap and net.luts:
+        from .cuts import remap_network
+
+        alt = remap_network(net, opts)
+        key = (lambda n: (n.count, n.depth)) if opts.objective == "area" else (lambda n: (n.depth, n.count))
+        if key(alt) < key(net):
+            net = alt
+    net = _resolve_constant_luts(net)
+    net = tidy_network(net, prefix)
+    bounds = lower_bounds(table, k)
+    net = LutNetwork(net.k, net.input_names, net.output_names, net.luts, net.drivers, bounds, net.method)
+    if opts.verify:
+        from .verify_sat import check_network_any
+
+        verdict = check_network_any(table, net, limit=opts.enum_limit)
+        if not verdict.passed:
+            bad = [o.name for o in verdict.outputs if not o.passed]
+            raise CheckFailed(f"LUT mapping produced a wrong network for outputs {bad} (this is a bug)")
+    return net

@@ -1,0 +1,62 @@
+"""Options of the LUT mapper, grouped in one immutable value."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+from ..table import DEFAULT_ENUM_LIMIT
+
+__all__ = ["LutOptions"]
+
+
+@dataclass(frozen=True, slots=True)
+class LutOptions:
+    """How :func:`plaforge.lut.map_luts` works.
+
+    Parameters
+    ----------
+    decompose_limit : int
+        Outputs whose support has at most this many inputs are decomposed functionally on their truth table
+        (2**support points); wider outputs are mapped by cuts on a multi-level subject graph built from a
+        two-level cover.
+    bound_set_budget : int
+        Bound sets scored per decomposition step when every subset of up to k variables is tried; above it a beam
+        search grows bound sets one variable at a time.
+    beam : int
+        Beam width of that search.
+    objective : {"area", "depth"}
+        ``area``: keep the network with fewer LUTs (depth breaks ties); ``depth``: keep the shallower one (LUT
+        count breaks ties). The cut-based pass always labels for minimum depth first.
+    remap : bool
+        Run the cut-based pass (depth-optimal labelling plus area recovery) over the decomposed network too, and
+        keep the better of the two by ``objective``.
+    cut_limit : int
+        Cuts kept per node in the cut-based pass (priority cuts). 0 keeps every cut; only then, or when the limit
+        is never reached (``LutNetwork.method`` says which), is the depth the minimum over all k-feasible cut
+        covers of the subject graph.
+    verify : bool
+        Re-check the finished network against the table (exhaustive within ``enum_limit``, SAT beyond) and raise
+        :class:`plaforge.errors.CheckFailed` on a mismatch.
+    enum_limit : int
+        Enumeration limit for that check.
+    """
+
+    decompose_limit: int = 16
+    bound_set_budget: int = 1500
+    beam: int = 8
+    objective: Literal["area", "depth"] = "area"
+    remap: bool = True
+    cut_limit: int = 0
+    verify: bool = True
+    enum_limit: int = DEFAULT_ENUM_LIMIT
+
+    def __post_init__(self) -> None:
+        for name in ("decompose_limit", "bound_set_budget", "beam", "cut_limit", "enum_limit"):
+            value = getattr(self, name)
+            if not isinstance(value, int) or isinstance(value, bool) or value < 0:
+                raise ValueError(f"LutOptions.{name} must be a non-negative int, not {value!r}")
+        if self.decompose_limit > 22:
+            raise ValueError(f"LutOptions.decompose_limit must be at most 22, not {self.decompose_limit!r}")
+        if self.objective not in ("area", "depth"):
+            raise ValueError(f"LutOptions.objective must be 'area' or 'depth', not {self.objective!r}")
