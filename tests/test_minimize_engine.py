@@ -1,0 +1,150 @@
+"""Minimizer plumbing: isolation of the compiled minimizer, options, summaries, determinism, the CLI."""
+
+from __future__ import annotations
+
+import json
+import os
+from pathlib import Path
+
+import numpy as np
+import pytest
+from click.testing import CliRunner
+
+from plaforge.cli import cli
+from plaforge.cube import Cover, Cube
+from plaforge.errors import SolverFailure, TooWide
+from plaforge.minimize import MinimizeOptions, cover_summary, minimize
+from plaforge.minimize.heuristic import decode_row, encode_cube, run_isolated, verify_cover
+from plaforge.table import Table
+
+CONTRACT_KEYS = ["inputs", "outputs", "rows", "terms", "literals", "method", "optimal", "lower_bound", "seconds"]
+
+ADDER_PLA = """\
+.i 3
+.o 2
+.ilb a b cin
+.ob sum cout
+.type fr
+001 10
+010 10
+100 10
+111 11
+011 01
+101 01
+110 01
+000 00
+.e
+"""
+
+
+def _crash() -> None:
+    os._exit(3)
+
+
+def _sleep() -> None:
+    import time
+
+    time.sleep(30)
+
+
+def _raise() -> None:
+    raise RuntimeError("boom")
+
+
+def test_positional_notation_round_trip() -> None:
+    # pyeda's positional cube notation: 1 = complemented literal, 2 = true literal, 3 = absent (pyeda docs)
+    c = Cube.parse("1-0")
+    assert encode_cube(c, 3) == (2, 3, 1)
+    assert decode_row((2, 3, 1), (1, 0)) == Cube(c.care, c.value, 1)
+
+
+def test_child_crash_becomes_solver_failure() -> None:
+    with pytest.raises(SolverFailure, match="crashed"):
+        run_isolated(_crash, (), 10, "the test minimizer")
+
+
+def test_child_timeout_becomes_solver_failure() -> None:
+    with pytest.raises(SolverFailure, match="did not finish"):
+        run_isolated(_sleep, (), 0.5, "the test minimizer")
+
+
+def test_child_error_becomes_solver_failure() -> None:
+    with pytest.raises(SolverFailure, match="boom"):
+        run_isolated(_raise, (), 10, "the test minimizer")
+
+
+def test_wrong_cover_is_rejected() -> None:
+    t = Table.from_function(["a", "b"], ["y"], lambda p: [p == 3])
+    bad = Cover(("a", "b"), ("y",), (Cube.parse("1-"),))
+    with pytest.raises(SolverFailure, match="wrong cover"):
+        verify_cover(t, bad, "a test")
+
+
+def test_options_validate() -> None:
+    with pytest.raises(ValueError, match="cost must be"):
+        MinimizeOptions(cost="cheap")  # type: ignore[arg-type]
+    with pytest.raises(ValueError, match="time_limit"):
+        MinimizeOptions(time_limit=0)
+    with pytest.raises(TypeError, match="needs a Table"):
+        minimize("table.pla")  # type: ignore[arg-type]
+
+
+def test_exact_refuses_wide_tables() -> None:
+    names = tuple(f"a[{i}]" for i in range(20))
+    t = Table(names, ("y",), ((Cube.parse("1" * 20),),), ((),), (None,))
+    with pytest.raises(TooWide, match="exact path"):
+        minimize(t, MinimizeOptions(exact=True))
+
+
+def test_same_input_same_cover() -> None:
+    rng = np.random.default_rng(5)
+    draw = rng.random((3, 64))
+    t = Table.from_function([f"x[{i}]" for i in range(6)], ["p", "q", "r"], lambda p: [draw[j] < 0.5 for j in range(3)])
+    for opts in (MinimizeOptions(), MinimizeOptions(exact=True, time_limit=20)):
+        assert minimize(t, opts).cubes == minimize(t, opts).cubes
+
+
+def test_in_process_and_isolated_agree() -> None:
+    t = Table.from_function([f"x[{i}]" for i in range(5)], ["y"], lambda p: [(p * 7) % 11 < 5])
+    assert minimize(t, MinimizeOptions(isolate=False)).cubes == minimize(t).cubes
+
+
+def test_summary_has_contract_keys() -> None:
+    t = Table.from_function(["a", "b"], ["y"], lambda p: [p == 3])
+    s = cover_summary(minimize(t))
+    assert list(s) == CONTRACT_KEYS
+    assert s["rows"] == 1 and s["literals"] == 2 and s["terms"] == {"y": 1}
+
+
+def test_cli_json_contract(tmp_path: Path) -> None:
+    spec = tmp_path / "adder.pla"
+    spec.write_text(ADDER_PLA)
+    out = tmp_path / "cover.pla"
+    res = CliRunner().invoke(cli, ["minimize", str(spec), "--exact", "--cost", "per-output", "--json", "-o", str(out)])
+    assert res.exit_code == 0, res.output
+    data = json.loads(res.stdout)
+    assert list(data) == CONTRACT_KEYS
+    # common practice: full-adder sum needs 4 product terms, carry 3
+    assert data["terms"] == {"sum": 4, "cout": 3}
+    assert data["method"] == "exact" and data["optimal"] is True and data["lower_bound"] == 7
+    from plaforge.formats import read_spec
+    from plaforge.formats.pla import read_cover
+    from plaforge.verify.equivalence import check_cover
+
+    assert check_cover(read_spec(spec), read_cover(out)).passed
+
+
+def test_cli_human_summary(tmp_path: Path) -> None:
+    spec = tmp_path / "adder.pla"
+    spec.write_text(ADDER_PLA)
+    res = CliRunner().invoke(cli, ["minimize", str(spec)])
+    assert res.exit_code == 0
+    assert "rows" in res.output and "sum 4" in res.output and "heuristic" in res.output
+
+
+def test_cli_bad_input_exits_2(tmp_path: Path) -> None:
+    res = CliRunner().invoke(cli, ["minimize", str(tmp_path / "missing.pla")])
+    assert res.exit_code == 2
+    assert "no such file" in res.output
+    res = CliRunner().invoke(cli, ["minimize", str(tmp_path / "x.pla"), "--cost", "cheap"])
+    assert res.exit_code == 2
