@@ -3,7 +3,8 @@
 For each output ``j`` the prover asks PicoSAT (bundled with pyeda) for a counterexample point in two ways:
 
 * an ON point the artifact drives to 0: ``p in ON_j and artifact_j(p) = 0``;
-* an OFF point the artifact drives to 1: ``p in OFF_j and artifact_j(p) = 1``.
+* an OFF point the artifact drives to 1: ``p not in ON_j, p not in DC_j and artifact_j(p) = 1`` (the OFF set is
+  never built as cubes: its complement form is two lists of blocking clauses).
 
 Don't-care points are in neither set, so they are never counterexamples. Both queries unsatisfiable means
 ON ⊆ artifact ⊆ ON ∪ DC over all ``2**n`` points: a proof, with no enumeration.
@@ -106,14 +107,15 @@ def sat_check_cover(table: Table, cover: Cover, artifact: str = "cover") -> Verd
     res = []
     for j, name in enumerate(table.output_names):
         mine = cover.cubes_for(j)
-        inv = cover.is_inverted(j)
+        on, dc = table.on_cubes(j), table.dc_cubes(j)
         failure = None
-        for expected, region in ((1, table.on_cubes(j)), (0, table.off_cubes(j))):
-            if not region:
-                continue
+        for expected in (1, 0):
             cnf = _Cnf(table.n_inputs)
-            clauses = cnf.in_union(region)
-            drives_one = (expected == 1) == inv  # the artifact gives 0 at an ON point / 1 at an OFF point
+            if expected == 1:
+                clauses = cnf.in_union(on)
+            else:  # OFF is what is neither ON nor DC: no complement is ever built
+                clauses = cnf.outside_union(on) + cnf.outside_union(dc)
+            drives_one = (expected == 1) == cover.is_inverted(j)  # the union of its cubes holds the point
             clauses += cnf.in_union(mine) if drives_one else cnf.outside_union(mine)
             p = cnf.solve(clauses)
             if p is not None:
@@ -143,12 +145,11 @@ def sat_check_network(table: Table, net: LutNetwork, artifact: str = "LUT networ
     for j, name in enumerate(table.output_names):
         y = var[net.drivers[j]]
         failure = None
-        for expected, region in ((1, table.on_cubes(j)), (0, table.off_cubes(j))):
-            if not region:
-                continue
+        on, dc = table.on_cubes(j), table.dc_cubes(j)
+        for expected in (1, 0):
             cnf = _Cnf(table.n_inputs)
             cnf.nvars, cnf.clauses = base.nvars, list(base.clauses)
-            clauses = cnf.in_union(region)
+            clauses = cnf.in_union(on) if expected == 1 else cnf.outside_union(on) + cnf.outside_union(dc)
             clauses.append((-y,) if expected == 1 else (y,))
             p = cnf.solve(clauses)
             if p is not None:
