@@ -102,8 +102,13 @@ def _stem(table: Table) -> str:
     return s if s and not s[0].isdigit() else f"d_{s}"
 
 
-def build(table: Table, out_dir: str | Path, options: BuildOptions | None = None) -> BuildResult:
-    """Run every stage on ``table`` and write the artifacts into ``out_dir`` (created if missing)."""
+def build(
+    table: Table, out_dir: str | Path, options: BuildOptions | None = None, spec_path: str | Path | None = None
+) -> BuildResult:
+    """Run every stage on ``table`` and write the artifacts into ``out_dir`` (created if missing).
+
+    ``spec_path``, when given, is the spec file whose SHA-256 the generated modules quote.
+    """
     from .emit.amaranth import module_source
     from .emit.harness import harness_source
     from .formats.pla import write_pla
@@ -117,8 +122,8 @@ def build(table: Table, out_dir: str | Path, options: BuildOptions | None = None
     stem = _stem(table)
     source_name = Path(table.source).name if table.source else ""
     digest = ""
-    if table.source and Path(table.source).is_file():
-        digest = hashlib.sha256(Path(table.source).read_bytes()).hexdigest()
+    if spec_path is not None and Path(spec_path).is_file():
+        digest = hashlib.sha256(Path(spec_path).read_bytes()).hexdigest()
 
     cover = minimize(table, MinimizeOptions(exact=opts.exact, cost=opts.cost, time_limit=opts.time_limit))
     res = BuildResult(table, cover, None)
@@ -143,6 +148,7 @@ def build(table: Table, out_dir: str | Path, options: BuildOptions | None = None
     for key in ("cover", "luts", "module_sop", "module_lut"):
         res.verdicts[key] = check_artifact(table, res.artifacts[key])
 
+    res.notes.append(f"keep the standalone harness in your own tests; it runs with: python -m pytest {res.artifacts['harness']}")
     if opts.budget_rows is not None:
         res.fit["rows"] = {"budget": opts.budget_rows, "used": cover.rows, "fits": cover.rows <= opts.budget_rows}
     if opts.budget_luts is not None:

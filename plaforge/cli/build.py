@@ -35,7 +35,7 @@ def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: f
     table = read_spec(spec)
     opts = BuildOptions(k=k, exact=exact, cost=cost, time_limit=time_limit, budget_rows=budget_rows,
                         budget_luts=budget_luts)
-    result = build(table, out, opts)
+    result = build(table, out, opts, spec_path=spec)
     if as_json:
         click.echo(json.dumps(result.to_json_obj(), sort_keys=True))
     else:

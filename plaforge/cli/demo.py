@@ -24,7 +24,7 @@ def demo_cmd(out: str) -> None:
     table = read_spec(path)
     click.echo(table_summary(table))
     click.echo("")
-    result = build(table, out, BuildOptions(exact=True, time_limit=30.0))
+    result = build(table, out, BuildOptions(exact=True, time_limit=30.0), spec_path=path)
     click.echo(build_report(result))
     if not result.passed:
         raise CheckFailed("an artifact does not match the spec (see above)")
