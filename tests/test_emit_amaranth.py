@@ -211,7 +211,7 @@ def test_wide_module_checks_by_sampling_and_proof(tmp_path) -> None:
     component = build_component(t, _on_cover(t))
     verdict = check_component(t, component, exhaustive_limit=16, samples=300, seed=5)
     assert verdict.passed
-    assert all(o.vectors >= 300 for o in verdict.outputs)
+    assert all(o.vectors > 100 for o in verdict.outputs)  # corners plus samples (duplicates dropped)
     assert "corner" in verdict.outputs[0].method
     # a wrong component is caught on a corner of an ON cube (the cube's own value point)
     broken = Cover(t.input_names, t.output_names, (Cube(0x3FFFF, 0x2ABCD, 1), Cube(0x30000, 0x30000, 2)))

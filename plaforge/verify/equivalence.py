@@ -16,7 +16,7 @@ from ..cube import Cover
 from ..lut.network import LutNetwork
 from ..table import DEFAULT_ENUM_LIMIT, Table, _literal_bits, _valid_mask, cubes_bits
 
-__all__ = ["OutputVerdict", "Verdict", "check_cover", "check_network", "first_point", "cover_bits", "network_bits"]
+__all__ = ["OutputVerdict", "Verdict", "check_cover", "check_network", "cover_bits", "first_point", "network_bits"]
 
 
 @dataclass(frozen=True)
@@ -68,12 +68,12 @@ def network_bits(net: LutNetwork, n: int) -> list[np.ndarray]:
     for lut in net.luts:
         fan = [vals[x] for x in lut.inputs]
 
-        def shannon(init: int, width: int) -> np.ndarray:
+        def shannon(init: int, width: int, fan: list[np.ndarray] = fan) -> np.ndarray:
             if width == 0:
                 return full if init & 1 else vals["0"]
             half = 1 << (width - 1)
-            lo = shannon(init & ((1 << half) - 1), width - 1)
-            hi = shannon(init >> half, width - 1)
+            lo = shannon(init & ((1 << half) - 1), width - 1, fan)
+            hi = shannon(init >> half, width - 1, fan)
             if lo is hi:
                 return lo
             x = fan[width - 1]

@@ -5,7 +5,8 @@ Vectors
 Up to ``exhaustive_limit`` inputs every point is driven (points where every output is a don't-care are skipped:
 nothing there can fail). Beyond it: corner cases first (all zeros, all ones, walking ones, walking zeros, and both
 extreme corners of every ON cube of every output: its free inputs all 0 and all 1), then ``samples`` points drawn
-from a ``random.Random(seed)`` stream, duplicates dropped. The same seed gives the same vectors.
+from a ``random.Random(seed)`` stream (half uniform, half inside ON cubes), duplicates dropped. The same seed gives
+the same vectors.
 
 Speed
 -----
@@ -148,13 +149,23 @@ def corner_points(table: Table) -> list[int]:
 
 
 def sample_points(table: Table, samples: int, seed: int) -> tuple[list[int], int]:
-    """Corner points then ``samples`` seeded random points, de-duplicated; also returns the corner count."""
+    """Corner points then ``samples`` seeded random points, de-duplicated; also returns the corner count.
+
+    Half of the random points are drawn uniformly; the other half inside the ON cubes (a random cube of a random
+    output, its free inputs random), so outputs whose care points are rare (mostly don't-care) are still exercised.
+    """
     corners = corner_points(table)
     rng = random.Random(seed)
     n = table.n_inputs
+    full = (1 << n) - 1
+    on = [c for j in range(table.n_outputs) for c in table.on_cubes(j)]
     pts = dict.fromkeys(corners)
-    for _ in range(samples):
-        pts[rng.getrandbits(n) if n else 0] = None
+    for k in range(samples):
+        p = rng.getrandbits(n) if n else 0
+        if k % 2 and on:
+            c = on[rng.randrange(len(on))]
+            p = c.value | (p & full & ~c.care)
+        pts[p] = None
     return list(pts), len(corners)
 
 
