@@ -20,7 +20,6 @@ measures the rate.
 from __future__ import annotations
 
 import hashlib
-import importlib.util
 import os
 import random
 import types
@@ -51,7 +50,8 @@ DEFAULT_SAMPLES = 4096
 
 
 def load_module(path: str | os.PathLike[str]) -> types.ModuleType:
-    """Import a Python file by its path, in isolation (not added to ``sys.modules``, nothing else imported).
+    """Import a Python file by its path, in isolation (not added to ``sys.modules``, nothing else imported, no
+    bytecode cache read or written).
 
     Raises
     ------
@@ -62,12 +62,16 @@ def load_module(path: str | os.PathLike[str]) -> types.ModuleType:
     if not p.is_file():
         raise PlaforgeError(f"{p}: no such module file")
     name = "_plaforge_checked_" + hashlib.sha256(str(p.resolve()).encode()).hexdigest()[:16]
-    spec = importlib.util.spec_from_file_location(name, p)
-    if spec is None or spec.loader is None:
-        raise PlaforgeError(f"{p}: not importable as a Python module")
-    mod = importlib.util.module_from_spec(spec)
     try:
-        spec.loader.exec_module(mod)
+        source = p.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        raise PlaforgeError(f"{p}: cannot read: {exc}") from None
+    # Compiled from the text each time (no cached bytecode that could be stale for a file rewritten in place).
+    mod = types.ModuleType(name)
+    mod.__file__ = str(p)
+    try:
+        code = compile(source, str(p), "exec", dont_inherit=True)
+        exec(code, mod.__dict__)  # noqa: S102 - running the module is the point of the check
     except Exception as exc:  # noqa: BLE001 - a user's file can raise anything while importing
         raise PlaforgeError(f"{p}: importing it failed: {type(exc).__name__}: {exc}") from None
     return mod
