@@ -220,3 +220,12 @@ def test_wide_module_checks_by_sampling_and_proof(tmp_path) -> None:
     p, expected, actual = bad.outputs[0].failure
     # reference: the definition above, evaluated directly on the reported point
     assert (p & 0x0FFFF == 0x01234 or p & 0x3FFFF == 0x2ABCD) == bool(expected) and actual == 1 - expected
+
+
+def test_in_process_component_from_the_table_alone() -> None:
+    t = _adder3()
+    for kwargs in ({}, {"style": "lut", "k": 4}):
+        got = _simulate_all(t, build_component(t, **kwargs))
+        assert got == [(p & 7) + (p >> 3 & 7) for p in range(64)]  # reference: Python integer addition
+    with pytest.raises(ValueError, match="style must be"):
+        build_component(t, style="pla")

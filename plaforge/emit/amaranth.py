@@ -548,13 +548,20 @@ def _doc_src(s: str) -> str:
 
 
 # -- in-process component ----------------------------------------------------------------------------------------
-def build_component(table: Table, artifact: Cover | LutNetwork) -> Any:
+def build_component(table: Table, artifact: Cover | LutNetwork | None = None, *, style: str = "sop",
+                    k: int = 6) -> Any:
     """The same component :func:`module_source` writes, built in-process (no file, no import).
 
     Parameters
     ----------
     table : Table
-    artifact : Cover or LutNetwork
+    artifact : Cover or LutNetwork, optional
+        What to realize. When omitted it is made from ``table``: ``minimize(table)`` for ``style="sop"``,
+        ``map_luts(table, k)`` for ``style="lut"``.
+    style : str
+        ``"sop"`` or ``"lut"``; only used when ``artifact`` is omitted.
+    k : int
+        LUT size for ``style="lut"``.
 
     Returns
     -------
@@ -565,7 +572,8 @@ def build_component(table: Table, artifact: Cover | LutNetwork) -> Any:
     --------
     Inside your own ``elaborate``::
 
-        decoder = build_component(table, minimize(table))
+        decoder = build_component(table)            # minimized sum of products
+        decoder = build_component(table, style="lut", k=4)
         m.submodules.decoder = decoder
         m.d.comb += decoder.addr.eq(self.bus.addr)
     """
@@ -573,6 +581,17 @@ def build_component(table: Table, artifact: Cover | LutNetwork) -> Any:
     from amaranth.lib import wiring
     from amaranth.lib.wiring import In, Out
 
+    if artifact is None:
+        if style == "sop":
+            from ..minimize import minimize
+
+            artifact = minimize(table)
+        elif style == "lut":
+            from ..lut import map_luts
+
+            artifact = map_luts(table, k)
+        else:
+            raise ValueError(f"style must be 'sop' or 'lut', not {style!r}")
     plan = plan_for(table, artifact)
 
     class PlaforgeLogic(wiring.Component):
