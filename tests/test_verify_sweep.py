@@ -63,6 +63,8 @@ def test_both_styles_pass_amaranth_and_iverilog(tmp_path, case: str) -> None:
             # Independent simulator: iverilog runs the Verilog Amaranth's backend wrote, every input point.
             got = run_iverilog(t, verilog_source(src, f"m_{style}"), f"m_{style}", tmp_path)
             assert compare_with_table(t, got) == [], style
+    if not HAVE_IVERILOG:
+        pytest.skip("Amaranth part passed; iverilog/vvp not installed (Debian package 'iverilog'), Verilog not run")
 
 
 def _flip_one_literal(t: Table, cover: Cover) -> tuple[Cover, int] | None:
