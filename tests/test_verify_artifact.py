@@ -268,3 +268,11 @@ def test_module_and_check_commands(tmp_path: Path) -> None:
     assert res.exit_code == 2 and "give the module file with -o" in res.output
     res = runner.invoke(cli, ["module", str(spec)])
     assert res.exit_code == 0 and "class Add2(wiring.Component):" in res.output
+
+
+def test_malformed_embedded_data_is_a_user_error(tmp_path: Path) -> None:
+    t = _add2()
+    text = module_source(t, _cover(t), source_name="add2.pla").replace('{"kind": "cover"', '{"kind": "coverx"')
+    (tmp_path / "m.py").write_text(text)
+    with pytest.raises(PlaforgeError, match="PLAFORGE_ARTIFACT data is malformed"):
+        check_artifact(t, tmp_path / "m.py")
