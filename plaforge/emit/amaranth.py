@@ -72,7 +72,9 @@ _VERILOG_WORDS = (
 _VERILOG_KEYWORDS = frozenset(_VERILOG_WORDS.split())
 _COMPONENT_NAMES = frozenset({"signature", "metadata", "elaborate"})
 # Names the generated file itself binds at module level or in ``elaborate``.
-_FILE_NAMES = frozenset({"Cat", "Const", "Module", "Signal", "In", "Out", "wiring", "lut", "m", "self", "platform"})
+_FILE_NAMES = frozenset(
+    {"Cat", "Const", "Module", "Signal", "In", "Out", "wiring", "lut", "m", "terms", "self", "platform"}
+)
 
 
 @dataclass(frozen=True, slots=True)
@@ -384,8 +386,8 @@ def _literals(plan: LogicPlan, care: int, value: int) -> list[str]:
     return lits
 
 
-def _comb(target: str, expr: _Node) -> list[str]:
-    return _layout(_Call(f"{target}.eq", (expr,)), 8, "m.d.comb += ", "")
+def _comb(target: str, expr: _Node, module: str = "m") -> list[str]:
+    return _layout(_Call(f"{target}.eq", (expr,)), 8, f"{module}.d.comb += ", "")
 
 
 OR_CHAIN_LIMIT = 16
@@ -404,13 +406,16 @@ def _elaborate_body(plan: LogicPlan, table: Table) -> list[str]:
     if plan.style == "sop":
         if plan.nodes:
             lines.append("")
-            lines.append("        # Product terms, each shared by every output listed beside it.")
+            lines.append("        # Product terms, each shared by every output listed beside it. They sit in a")
+            lines.append("        # submodule of their own so that a simulator settles them in one pass before")
+            lines.append("        # the outputs (in one module it would evaluate everything twice per change).")
+            lines.append("        m.submodules.terms = terms = Module()")
         for t, (care, value) in enumerate(plan.nodes):
             feeds = [table.output_names[j] for j, (ts, _) in enumerate(plan.outputs) if t in ts]
             lines.append(f"        t{t} = Signal()  # feeds {', '.join(feeds)}"[:LINE_LENGTH].rstrip())
             lits = _literals(plan, care, value)
             expr: _Node = "1" if not lits else lits[0] if len(lits) == 1 else _Chain("&", tuple(lits))
-            lines += _comb(f"t{t}", expr)
+            lines += _comb(f"t{t}", expr, "terms")
         lines.append("")
         lines.append("        # Outputs: the OR of their product terms (Cat(...).any() when there are many).")
         for j, (ts, inverted) in enumerate(plan.outputs):
@@ -612,6 +617,8 @@ def build_component(table: Table, artifact: Cover | LutNetwork | None = None, *,
                     (in_bits if p.direction == "in" else out_bits)[idx] = port if p.scalar else port[b]
             if plan.style == "sop":
                 terms = []
+                if plan.nodes:  # terms in their own module: a simulator settles them before the outputs
+                    m.submodules.terms = inner = Module()
                 for t, (care, value) in enumerate(plan.nodes):
                     sig = Signal(name=f"t{t}")
                     expr: Any = Const(1, 1)
@@ -626,7 +633,7 @@ def build_component(table: Table, artifact: Cover | LutNetwork | None = None, *,
                         expr = lits[0]
                         for lit in lits[1:]:
                             expr = expr & lit
-                    m.d.comb += sig.eq(expr)
+                    inner.d.comb += sig.eq(expr)
                     terms.append(sig)
                 for j, (ts, inverted) in enumerate(plan.outputs):
                     if not ts:
