@@ -9,7 +9,7 @@ from pyeda.inter import Majority, Xor, exprvar
 
 from plaforge.cube import Cover, Cube, cube_list_contains
 from plaforge.errors import SpecError
-from plaforge.formats._cubes import range_cubes, sharp
+from plaforge.formats._cubes import find_overlap, range_cubes, sharp
 from plaforge.formats.pla import parse_cover, parse_pla, write_pla, write_table_pla
 from plaforge.table import Table, popcount_bits
 
@@ -228,3 +228,30 @@ def test_contradiction_names_both_lines() -> None:
     text = ".i 3\n.o 2\n.type fr\n1-- 10\n000 01\n11- 01\n"
     with pytest.raises(SpecError, match=r"t\.pla:6: rows on lines 4 and 6 contradict for output 'y\[0\]'"):
         parse_pla(text, "t.pla")
+
+
+@given(st.integers(1, 14), st.integers(1, 3), st.data())
+@settings(max_examples=40, deadline=None)
+def test_find_overlap_matches_pairwise_search(n: int, density: int, data: st.DataObject) -> None:
+    # reference: the plain pairwise search over every (a, b) pair, keeping the pair whose later line comes first
+    def cubes(lines: list[int]) -> list[tuple[Cube, int]]:
+        out = []
+        for ln in lines:
+            care = 0
+            for _ in range(density):  # density 3 tests 7/8 of the inputs: long lists then get split
+                care |= data.draw(st.integers(0, (1 << n) - 1))
+            out.append((Cube(care, data.draw(st.integers(0, (1 << n) - 1)) & care), ln))
+        return out
+
+    k = data.draw(st.integers(1, 80))
+    lines = data.draw(st.permutations(range(1, 2 * k + 1)))
+    a = cubes(lines[:k])
+    b = cubes(lines[k:])
+    pairs = [(x, y) for x in a for y in b if x[0].intersects(y[0])]
+    got = find_overlap(a, b, n)
+    if not pairs:
+        assert got is None
+        return
+    key = lambda pr: (max(pr[0][1], pr[1][1]), min(pr[0][1], pr[1][1]))
+    assert got is not None and got[0][0].intersects(got[1][0])
+    assert key(got) == min(key(p) for p in pairs)

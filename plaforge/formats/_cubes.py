@@ -104,35 +104,53 @@ def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int = 1) -> list[Cube]:
 def find_overlap(
     a: Sequence[tuple[Cube, int]], b: Sequence[tuple[Cube, int]], n: int
 ) -> tuple[tuple[Cube, int], tuple[Cube, int]] | None:
-    """First pair (from ``a``, from ``b``) of tagged cubes whose input parts share a point, or ``None``.
+    """The pair (from ``a``, from ``b``) of tagged cubes whose input parts share a point, or ``None``.
 
-    Minterms (cubes testing all ``n`` inputs) are looked up in a dict, so two long lists of fully specified rows
-    cost O(len(a) + len(b)); only cubes with free inputs are compared pairwise.
+    Tags are line numbers; of all overlapping pairs the one whose later line comes first is returned (so a reader
+    reports the first conflict in file order). Long lists are split on the input most cubes test (cubes free in it
+    go to both halves) until they are short enough to compare pairwise, so two lists of ``k`` cubes cost about
+    ``k log k`` tests when they are spread out, instead of ``k**2``.
     """
     if not a or not b:
         return None
-    full = (1 << n) - 1
-    b_points: dict[int, tuple[Cube, int]] = {}
-    b_cubes: list[tuple[Cube, int]] = []
-    for item in b:
-        if item[0].care == full:
-            b_points.setdefault(item[0].value, item)
-        else:
-            b_cubes.append(item)
-    best: tuple[tuple[Cube, int], tuple[Cube, int]] | None = None
-    for item in a:
+    best: list[tuple[tuple[Cube, int], tuple[Cube, int]]] = []  # at most one pair: the best so far
+    _overlap(sorted(a, key=lambda t: t[1]), sorted(b, key=lambda t: t[1]), 0, best)
+    return best[0] if best else None
+
+
+def _overlap(a: list[tuple[Cube, int]], b: list[tuple[Cube, int]], used: int,
+             best: list[tuple[tuple[Cube, int], tuple[Cube, int]]]) -> None:
+    if not a or not b:
+        return
+    if len(a) * len(b) > 4096:
+        counts: dict[int, int] = {}
+        for x, _ in a + b:
+            m = x.care & ~used
+            while m:
+                low = m & -m
+                counts[low] = counts.get(low, 0) + 1
+                m ^= low
+        if counts:
+            bit = max(counts, key=lambda k: (counts[k], -k))
+            if counts[bit] * 4 >= 3 * (len(a) + len(b)):  # splitting sends few cubes to both halves
+                halves = []
+                for side in (a, b):
+                    zero = [t for t in side if not t[0].care & bit or not t[0].value & bit]
+                    one = [t for t in side if not t[0].care & bit or t[0].value & bit]
+                    halves.append((zero, one))
+                _overlap(halves[0][0], halves[1][0], used | bit, best)
+                _overlap(halves[0][1], halves[1][1], used | bit, best)
+                return
+    limit = max(best[0][0][1], best[0][1][1]) if best else None
+    for item in a:  # both lists are in line order: stop once no pair can beat the best one
+        if limit is not None and item[1] > limit:
+            break
         x = item[0]
-        cands: list[tuple[Cube, int]] = []
-        if x.care == full:
-            hit = b_points.get(x.value)
-            if hit is not None:
-                cands.append(hit)
-        else:
-            cands.extend(p for p in b_points.values() if x.contains_point(p[0].value))
-        cands.extend(y for y in b_cubes if x.intersects(y[0]))
-        for y in cands:
-            pair = (item, y)
-            if best is None or (max(item[1], y[1]), min(item[1], y[1])) < (max(best[0][1], best[1][1]),
-                                                                          min(best[0][1], best[1][1])):
-                best = pair
-    return best
+        for y in b:
+            if limit is not None and y[1] > limit:
+                break
+            if (x.value ^ y[0].value) & x.care & y[0].care == 0:
+                key = (max(item[1], y[1]), min(item[1], y[1]))
+                if not best or key < (max(best[0][0][1], best[0][1][1]), min(best[0][0][1], best[0][1][1])):
+                    best[:] = [(item, y)]
+                    limit = key[0]

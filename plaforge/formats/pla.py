@@ -61,6 +61,7 @@ __all__ = [
     "write_table_pla",
 ]
 
+MAX_PORTS = 65536  # largest .i / .o accepted
 _TYPES = ("f", "fd", "fr", "fdr")
 _DIRECTIVES = (".i", ".o", ".ilb", ".ob", ".p", ".type", ".phase", ".e", ".end")
 _IN_CARE = str.maketrans("01-xX", "11000")
@@ -106,6 +107,8 @@ def _int_arg(path: str, lineno: int, directive: str, args: list[str], col: int) 
         raise SpecError(path, lineno, f"{directive} needs a whole number, not {args[0]!r}", col) from None
     if v < 0:
         raise SpecError(path, lineno, f"{directive} must not be negative, got {v}", col)
+    if directive in (".i", ".o") and v > MAX_PORTS:
+        raise SpecError(path, lineno, f"{directive} {v} is more than plaforge handles ({MAX_PORTS})", col)
     return v
 
 
