@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import pytest
 from sympy import symbols
 from sympy.logic import SOPform
@@ -89,3 +91,11 @@ def test_segment_sample() -> None:
     assert seg(14) == [None] * 7 and seg(15) == [None] * 7
     assert seg(3, lamp=1, blank=1) == [1] * 7
     assert seg(3, blank=1) == [0] * 7
+
+
+def test_read_csv_from_disk(tmp_path: Path) -> None:
+    from plaforge.formats.csv import read_csv
+
+    f = tmp_path / "t.txt"  # the reader functions do not care about the extension
+    f.write_text("a, >y\n1, 1\n", encoding="utf-8")
+    assert [_value(read_csv(f), 0, p) for p in range(2)] == [0, 1]

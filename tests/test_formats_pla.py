@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
@@ -10,7 +12,7 @@ from pyeda.inter import Majority, Xor, exprvar
 from plaforge.cube import Cover, Cube, cube_list_contains
 from plaforge.errors import SpecError
 from plaforge.formats._cubes import find_overlap, range_cubes, sharp
-from plaforge.formats.pla import parse_cover, parse_pla, write_pla, write_table_pla
+from plaforge.formats.pla import parse_cover, parse_pla, read_cover, read_pla, write_pla, write_table_pla
 from plaforge.table import Table, popcount_bits
 
 # Full adder truth table (common practice): s = a xor b xor cin, cout = majority(a, b, cin).
@@ -255,3 +257,24 @@ def test_find_overlap_matches_pairwise_search(n: int, density: int, data: st.Dat
     key = lambda pr: (max(pr[0][1], pr[1][1]), min(pr[0][1], pr[1][1]))
     assert got is not None and got[0][0].intersects(got[1][0])
     assert key(got) == min(key(p) for p in pairs)
+
+
+@given(covers())
+@settings(max_examples=60, deadline=None)
+def test_written_cover_read_as_spec_is_the_covers_function(cover: Cover) -> None:
+    # reading a written cover as a spec (honouring .phase) gives exactly the function Cover.evaluate computes
+    if cover.n_inputs > 8:
+        cover = Cover(cover.input_names[:8], cover.output_names,
+                      tuple(Cube(c.care & 0xFF, c.value & 0xFF, c.outputs) for c in cover.cubes), cover.inverted)
+    t = parse_pla(write_pla(cover), "c.pla")
+    for p in range(1 << cover.n_inputs):
+        assert t.evaluate(p) == (cover.evaluate(p), 0)
+
+
+def test_read_functions_from_disk(tmp_path: Path) -> None:
+    f = tmp_path / "fa.pla"
+    f.write_text(FULL_ADDER, encoding="utf-8")
+    assert read_pla(f) == parse_pla(FULL_ADDER, "fa.pla")
+    assert read_cover(f).cubes == parse_cover(FULL_ADDER, "fa.pla").cubes
+    with pytest.raises(SpecError, match=r"absent\.pla: no such file"):
+        read_cover(tmp_path / "absent.pla")

@@ -42,6 +42,7 @@ from ..cube import Cube
 from ..errors import SpecError
 from ..table import Bus, Table
 from ._cubes import field_cube, find_overlap
+from ._files import read_text
 from .spec import MAX_WIDTH
 
 __all__ = ["parse_csv", "read_csv"]
@@ -265,9 +266,7 @@ def parse_csv(text: str, path: str) -> Table:
 
 def read_csv(path: str | os.PathLike[str]) -> Table:
     """Read a CSV truth table from disk (see :func:`parse_csv`)."""
-    from . import read_spec
-
-    return read_spec(path)
+    return parse_csv(read_text(path), os.fspath(path))
 
 
 def _parse_header(cells: list[tuple[str, int]], path: str, lineno: int

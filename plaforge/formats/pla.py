@@ -49,6 +49,7 @@ from ..cube import Cover, Cube
 from ..errors import SpecError
 from ..table import Table
 from ._cubes import find_overlap, sharp
+from ._files import read_text
 
 __all__ = [
     "PlaFile",
@@ -354,7 +355,7 @@ def parse_pla(text: str, path: str) -> Table:
 
 def read_pla(path: str | os.PathLike[str]) -> Table:
     """Read a PLA spec file (see :func:`parse_pla`)."""
-    return parse_pla(_read_text(path), os.fspath(path))
+    return parse_pla(read_text(path), os.fspath(path))
 
 
 def parse_cover(text: str, path: str) -> Cover:
@@ -376,21 +377,7 @@ def parse_cover(text: str, path: str) -> Cover:
 
 def read_cover(path: str | os.PathLike[str]) -> Cover:
     """Read a PLA cover file (see :func:`parse_cover`)."""
-    return parse_cover(_read_text(path), os.fspath(path))
-
-
-def _read_text(path: str | os.PathLike[str]) -> str:
-    try:
-        with open(path, encoding="utf-8") as fh:
-            return fh.read()
-    except FileNotFoundError:
-        raise SpecError(path, None, "no such file") from None
-    except IsADirectoryError:
-        raise SpecError(path, None, "is a directory, expected a PLA file") from None
-    except UnicodeDecodeError as exc:
-        raise SpecError(path, None, f"not UTF-8 text (byte {exc.start}); expected a PLA text file") from None
-    except OSError as exc:
-        raise SpecError(path, None, f"cannot read: {exc.strerror}") from None
+    return parse_cover(read_text(path), os.fspath(path))
 
 
 def write_pla(cover: Cover, source: str | None = None) -> str:

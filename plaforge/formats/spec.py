@@ -70,6 +70,7 @@ from ..cube import Cube
 from ..errors import SpecError
 from ..table import DEFAULT_ENUM_LIMIT, Bus, Table, bool_array_to_cubes
 from ._cubes import and_lists, field_cube, place, range_cubes, sharp
+from ._files import read_text
 from ._toml import Locator, load_toml
 from .expr import ExprError, Expression, compile_expr, evaluate
 
@@ -588,6 +589,4 @@ def parse_design(text: str, path: str) -> Table:
 
 def read_design(path: str | os.PathLike[str]) -> Table:
     """Read a design file from disk (see :func:`parse_design`)."""
-    from . import read_spec
-
-    return read_spec(path)
+    return parse_design(read_text(path), os.fspath(path))
