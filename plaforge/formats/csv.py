@@ -36,7 +36,9 @@ from __future__ import annotations
 import keyword
 import os
 import re
+from collections.abc import Mapping
 from dataclasses import dataclass
+from types import MappingProxyType
 
 from ..cube import Cube
 from ..errors import SpecError
@@ -49,7 +51,7 @@ __all__ = ["parse_csv", "read_csv"]
 
 _HEADER = re.compile(r"^(>)?\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?::\s*(\d+))?\s*(?:=\s*(\S+))?$")
 _SETTING = re.compile(r"^#!\s*([A-Za-z_]+)\s*=\s*(\S+)\s*$")
-_DEFAULTS = {"0": "0", "1": "1", "dc": "dc", "-": "dc", "x": "dc"}
+_DEFAULTS: Mapping[str, str] = MappingProxyType({"0": "0", "1": "1", "dc": "dc", "-": "dc", "x": "dc"})
 
 
 @dataclass(frozen=True)

@@ -53,6 +53,7 @@ import difflib
 import math
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
+from types import MappingProxyType
 
 import numpy as np
 
@@ -71,26 +72,28 @@ MAX_SOURCE = 2000
 MAX_NODES = 400
 _LIMIT = 1 << 62
 
-CONSTANTS: Mapping[str, float] = {"pi": math.pi, "tau": math.tau, "e": math.e}
-FUNCTIONS: Mapping[str, tuple[int, int | None]] = {  # name -> (min args, max args or None for "any")
+CONSTANTS: Mapping[str, float] = MappingProxyType({"pi": math.pi, "tau": math.tau, "e": math.e})
+FUNCTIONS: Mapping[str, tuple[int, int | None]] = MappingProxyType({  # name -> (min args, max args or None: any)
     "abs": (1, 1), "min": (2, None), "max": (2, None), "clamp": (3, 3), "isqrt": (1, 1), "sqrt": (1, 1),
     "log2": (1, 1), "sin": (1, 1), "cos": (1, 1), "floor": (1, 1), "ceil": (1, 1), "round": (1, 1),
     "popcount": (1, 1),
-}
+})
 
-_BIN_SYMBOL = {
+_BIN_SYMBOL: Mapping[type, str] = MappingProxyType({
     ast.Add: "+", ast.Sub: "-", ast.Mult: "*", ast.Div: "/", ast.FloorDiv: "//", ast.Mod: "%", ast.Pow: "**",
     ast.LShift: "<<", ast.RShift: ">>", ast.BitAnd: "&", ast.BitOr: "|", ast.BitXor: "^",
-}
-_CMP = {ast.Eq: np.equal, ast.NotEq: np.not_equal, ast.Lt: np.less, ast.LtE: np.less_equal, ast.Gt: np.greater,
-        ast.GtE: np.greater_equal}
-_NAMED_NODES = {
+})
+_CMP: Mapping[type, Callable[..., np.ndarray]] = MappingProxyType({
+    ast.Eq: np.equal, ast.NotEq: np.not_equal, ast.Lt: np.less, ast.LtE: np.less_equal, ast.Gt: np.greater,
+    ast.GtE: np.greater_equal,
+})
+_NAMED_NODES: Mapping[type, str] = MappingProxyType({
     ast.Attribute: "attribute access", ast.Subscript: "indexing", ast.Lambda: "lambda", ast.ListComp: "a comprehension",
     ast.SetComp: "a comprehension", ast.DictComp: "a comprehension", ast.GeneratorExp: "a generator expression",
     ast.NamedExpr: "assignment (:=)", ast.Starred: "star arguments", ast.List: "a list", ast.Tuple: "a tuple",
     ast.Dict: "a dict", ast.Set: "a set", ast.JoinedStr: "an f-string", ast.Await: "await", ast.Yield: "yield",
     ast.YieldFrom: "yield", ast.Slice: "slicing",
-}
+})
 
 
 class ExprError(Exception):
