@@ -49,3 +49,15 @@ def test_design_example() -> None:
     cube = [names.index(f"cube[{b}]") for b in range(6)]
     val = lambda p: sum(_value(t, j, p) << b for b, j in enumerate(cube))
     assert val(0x003) == 27 and val(0xC03 | wr) == 0 and val(0xC03) == 27  # 3 ** 3, common practice
+
+
+def test_module_doctests() -> None:
+    import doctest
+
+    import plaforge.formats._cubes as cubes
+    import plaforge.formats.csv as csv_mod
+    from plaforge.formats import expr, pla, spec
+
+    for mod in (cubes, csv_mod, expr, pla, spec):
+        res = doctest.testmod(mod)
+        assert res.failed == 0 and res.attempted > 0, mod.__name__

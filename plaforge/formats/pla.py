@@ -354,7 +354,13 @@ def parse_pla(text: str, path: str) -> Table:
 
 
 def read_pla(path: str | os.PathLike[str]) -> Table:
-    """Read a PLA spec file (see :func:`parse_pla`)."""
+    """Read a PLA spec file (see :func:`parse_pla`).
+
+    Raises
+    ------
+    SpecError
+        If the file cannot be read or is malformed.
+    """
     return parse_pla(read_text(path), os.fspath(path))
 
 
@@ -376,7 +382,13 @@ def parse_cover(text: str, path: str) -> Cover:
 
 
 def read_cover(path: str | os.PathLike[str]) -> Cover:
-    """Read a PLA cover file (see :func:`parse_cover`)."""
+    """Read a PLA cover file (see :func:`parse_cover`).
+
+    Raises
+    ------
+    SpecError
+        If the file cannot be read or is malformed.
+    """
     return parse_cover(read_text(path), os.fspath(path))
 
 
@@ -436,6 +448,19 @@ def write_table_pla(table: Table) -> str:
 
     Rows with the same input cube are merged across outputs; an output a row says nothing about gets ``~``. Reading
     the text back with :func:`parse_pla` gives a Table with the same three sets for every output.
+
+    Parameters
+    ----------
+    table : Table
+
+    Returns
+    -------
+    str
+
+    Raises
+    ------
+    ValueError
+        If a name contains whitespace or ``#``.
     """
     n, m = table.n_inputs, table.n_outputs
     for name in table.input_names + table.output_names:
