@@ -33,8 +33,9 @@ The reduced problem is a unicost set cover, solved with OR-Tools CP-SAT: it take
 reports the best objective bound while it runs (so a stopped run still yields a proven lower bound), and proves
 optimality with its LP relaxation, unsatisfiable cores and clause learning. It runs 2 workers (one per core of the
 target machine): the LP-heavy and the core-based full-problem searches, in deterministic interleaved mode.
-Stage 1 minimizes the number of primes (rows); stage 2 fixes that number and minimizes literals. The solution hint
-is the better of a greedy cover and the heuristic's cover mapped onto primes. The reported lower bound on rows is
+Stage 1 minimizes the number of primes (rows); stage 2 fixes that number and minimizes literals. The better of a
+greedy cover and the heuristic's cover mapped onto primes (and completed greedily) bounds each stage from above.
+The reported lower bound on rows is
 ``essentials + max(CP-SAT bound, independent-row bound)``, where the independent-row bound is the size of a set of
 rows no two of which share a prime (each needs its own prime).
 
@@ -43,15 +44,16 @@ Cost: ``O(n 3**n)`` for the tags, ``O(sum of prime sizes)`` for the matrix, then
 
 from __future__ import annotations
 
+import heapq
 import math
 import time
 from collections.abc import Callable, Iterator, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from ..cube import Cover, Cube
-from ..errors import TooWide
+from ..errors import SolverFailure, TooWide
 from ..table import Table, _valid_mask, unpack_bits
 from .heuristic import FunctionSets, espresso_cubes, merge_identical, sort_cubes, table_sets, verify_cover
 from .options import MinimizeOptions
@@ -326,25 +328,29 @@ def independent_rows_bound(pb: CoverProblem) -> int:
     return count
 
 
-def greedy_cover(pb: CoverProblem) -> list[int]:
-    """Classical greedy set cover of the open rows (most new rows per prime, fewer literals on ties)."""
+def greedy_cover(pb: CoverProblem, start: Sequence[int] = ()) -> list[int]:
+    """Classical greedy set cover of the open rows (most new rows per prime, fewer literals on ties).
+
+    ``start`` primes are taken first (e.g. the heuristic's cover mapped onto primes); greedy completes them. Gains
+    only shrink as rows get covered, so a heap with lazy re-evaluation finds each best prime without rescanning all.
+    """
     left = pb.alive_rows
-    picked: list[int] = []
-    cols = list(_bits_of(pb.alive_cols))
-    while left:
-        best = max(cols, key=lambda p: ((pb.cols[p] & left).bit_count(), -pb.literals[p], -p))
-        if not pb.cols[best] & left:
-            break
-        picked.append(best)
-        left &= ~pb.cols[best]
-    return picked
-
-
-def _covers_all(pb: CoverProblem, picked: Sequence[int]) -> bool:
-    got = 0
+    picked: list[int] = list(start)
     for p in picked:
-        got |= pb.cols[p]
-    return pb.alive_rows & ~got == 0
+        left &= ~pb.cols[p]
+    heap = [(-(pb.cols[p] & left).bit_count(), pb.literals[p], p) for p in _bits_of(pb.alive_cols)]
+    heapq.heapify(heap)
+    while left and heap:
+        _, lit, p = heapq.heappop(heap)
+        gain = (pb.cols[p] & left).bit_count()
+        if gain == 0:
+            continue
+        if heap and (-gain, lit, p) > heap[0]:
+            heapq.heappush(heap, (-gain, lit, p))
+            continue
+        picked.append(p)
+        left &= ~pb.cols[p]
+    return picked
 
 
 # -- mapping heuristic cubes to primes -----------------------------------------------------------------------------
@@ -387,20 +393,26 @@ class ExactResult:
 
 def _cp_sat(pb: CoverProblem, cols: list[int], rows: list[int], hint: set[int], deadline: float,
             progress: Progress, rows_target: int | None) -> tuple[list[int] | None, bool, float]:
-    """One CP-SAT solve: minimum primes (``rows_target`` None) or minimum literals at ``rows_target`` primes."""
+    """One CP-SAT solve: minimum primes (``rows_target`` None) or minimum literals at ``rows_target`` primes.
+
+    ``hint`` is a known cover; the model asks for one no worse. Returns (chosen primes or None, proven, bound).
+    """
     from ortools.sat.python import cp_model
 
     model = cp_model.CpModel()
     x = {p: model.NewBoolVar(f"p{p}") for p in cols}
     for r in rows:
         model.AddBoolOr([x[p] for p in _bits_of(pb.rows[r])])
+    # The known cover enters as an upper bound, not as a solution hint: on these set-cover models a hint steered
+    # the search into long detours (the 9-input symmetric function took 10 s with it, 4 s with the bound).
     if rows_target is None:
+        model.Add(sum(x.values()) <= len(hint))
         model.Minimize(sum(x.values()))
     else:
         model.Add(sum(x.values()) == rows_target)
-        model.Minimize(sum(pb.literals[p] * x[p] for p in cols))
-    for p in cols:
-        model.AddHint(x[p], p in hint)
+        lits = sum(pb.literals[p] * x[p] for p in cols)
+        model.Add(lits <= sum(pb.literals[p] for p in hint))
+        model.Minimize(lits)
     solver = cp_model.CpSolver()
     # Two workers, one per core: an LP-based search (its bound proves set-cover minima quickly) and a core-based
     # one (MaxSAT-style unsatisfiable cores raise the bound); interleaved deterministically, so the same input gives
@@ -452,20 +464,25 @@ def solve_exact(on: Sequence[np.ndarray], dc: Sequence[np.ndarray], n: int, heur
     greedy = greedy_cover(pb)
     tags_full = ternary_tags(_point_tags(on, dc, n), n, np.bitwise_and)
     mapped = [p for p in dict.fromkeys(_map_to_primes(heuristic, primes, tags_full, n)) if pb.alive_cols >> p & 1]
-    hint = greedy
-    if _covers_all(pb, mapped) and len(mapped) < len(greedy):
-        hint = mapped
-    progress.stage("solving minimum cover (CP-SAT)")
+    completed = greedy_cover(pb, mapped)
+    hint = completed if len(completed) < len(greedy) else greedy
     progress.update(**{"best rows": ess + len(hint), "rows bound": ess + indep})
-    picked, proven, bound = _cp_sat(pb, cols, rows, set(hint), deadline, _Offset(progress, ess), None)
+    if time.monotonic() < deadline:
+        progress.stage("solving minimum cover (CP-SAT)")
+        picked, proven, bound = _cp_sat(pb, cols, rows, set(hint), deadline, _Offset(progress, ess), None)
+    else:
+        picked, proven, bound = None, False, 0.0
     if picked is None or len(picked) > len(hint):
-        picked, proven = list(hint), proven and picked is not None and len(picked) == len(hint)
+        picked, proven = list(hint), False
     lb = ess + max(indep, math.ceil(bound - 1e-6) if math.isfinite(bound) else 0)
     if proven:
         lb = ess + len(picked)
     lb = min(lb, ess + len(picked))
-    lit_opt = False
-    if time.monotonic() < deadline - 0.2:
+    # Literals at this row count are at least the sum of the len(picked) smallest literal counts; when the cover
+    # already meets that bound (e.g. all primes equally wide) there is nothing for stage 2 to find.
+    floor = sum(sorted(pb.literals[p] for p in cols)[: len(picked)])
+    lit_opt = sum(pb.literals[p] for p in picked) == floor
+    if not lit_opt and time.monotonic() < deadline - 0.2:
         progress.stage("minimizing literals at that row count (CP-SAT)")
         picked2, lit_opt, _ = _cp_sat(pb, cols, rows, set(picked), deadline, progress, len(picked))
         if picked2 is not None:
@@ -537,7 +554,12 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int = 0) ->
     on, dc = _point_sets(table, inverted)
     fs: FunctionSets = table_sets(table, inverted)
     per_output = options.cost == "per-output"
-    heur = espresso_cubes(fs, per_output, options)
+    # The heuristic cover only seeds the solver (and is the fallback): a third of the budget, and none at all is fine.
+    try:
+        heur: list[Cube] | None = espresso_cubes(
+            fs, per_output, replace(options, time_limit=max(0.5, options.time_limit / 3)))
+    except SolverFailure:
+        heur = None
     with Progress(options.progress, f"exact minimization of {table.source or 'table'}") as progress:
         groups = [[j] for j in range(m)] if per_output else [list(range(m))]
         cubes: list[Cube] = []
@@ -551,15 +573,14 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int = 0) ->
             sub_dc = [dc[j] for j in group]
             mask = sum(1 << j for j in group)
             sub_heur = [
-                Cube(c.care, c.value, _squeeze(c.outputs & mask, group)) for c in heur if c.outputs & mask
+                Cube(c.care, c.value, _squeeze(c.outputs & mask, group)) for c in heur or () if c.outputs & mask
             ]
             if per_output:
                 progress.stage(f"output {table.output_names[group[0]]}")
             _, pb, res = solve_exact(sub_on, sub_dc, n, sub_heur, sub_deadline, progress)
             got = [Cube(c.care, c.value, _spread(c.outputs, group)) for c in _irredundant(pb, res.chosen)]
-            heur_rows = [c for c in sub_heur]
-            if len(got) > len(heur_rows):  # cannot happen when the hint was used; keep the better one anyway
-                got = [Cube(c.care, c.value, _spread(c.outputs, group)) for c in heur_rows]
+            if heur is not None and len(got) > len(sub_heur):  # the solver did worse than its seed: keep the seed
+                got = [Cube(c.care, c.value, _spread(c.outputs, group)) for c in sub_heur]
             cubes += got
             optimal &= res.optimal
             lits_optimal &= res.literals_optimal
