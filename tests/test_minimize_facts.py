@@ -71,6 +71,7 @@ def test_parity_needs_half_the_points(n: int) -> None:
     # textbook fact: no two ON points of parity are adjacent, so each of the 2^(n-1) minterms is its own prime
     assert heur.rows == exact.rows == 2 ** (n - 1)
     assert exact.optimal and exact.lower_bound == 2 ** (n - 1)
+    assert heur.optimal  # every minterm is an essential prime, so the heuristic's own lower bound proves it
     assert _passes(t, heur) and _passes(t, exact)
 
 
@@ -183,3 +184,34 @@ def test_phase_never_worse_and_verified(name: str) -> None:
     assert _passes(t, phased)
     exact = minimize(t, MinimizeOptions(phase=True, exact=True, time_limit=30))
     assert _passes(t, exact) and exact.rows <= phased.rows
+
+
+def test_prime_counts_match_counting_arguments() -> None:
+    from benchmarks.suite import SUITE
+    from plaforge.minimize.exact import _point_sets, multi_output_primes
+
+    t = SUITE["sym9_3to6"]()
+    on, dc = _point_sets(t, 0)
+    # counting argument: a prime of "3 to 6 of 9 inputs are 1" fixes exactly three 1s and three 0s: C(9,3)*C(6,3)
+    assert len(multi_output_primes(on, dc, 9)) == 84 * 20
+    fa = full_adder()
+    on, dc = _point_sets(fa, 0)
+    primes = multi_output_primes(on, dc, 3)
+    # common practice (multi-output Quine-McCluskey on the full adder): the sum alone has the primes a'b'cin,
+    # a'b cin', a b'cin'; the carry alone ab, a cin, b cin; and the minterm abc is a prime of both outputs together
+    shared = [i for i in range(len(primes)) if int(primes.useful[i]) == 0b11]
+    carry_only = [i for i in range(len(primes)) if int(primes.useful[i]) == 0b10]
+    sum_only = [i for i in range(len(primes)) if int(primes.useful[i]) == 0b01]
+    assert len(primes) == 7 and len(sum_only) == 3
+    assert len(shared) == 1 and int(primes.care[shared[0]]) == 0b111 and int(primes.value[shared[0]]) == 0b111
+    assert sorted(int(primes.care[i]).bit_count() for i in carry_only) == [2, 2, 2]
+
+
+def test_time_limit_gives_valid_cover_and_bound() -> None:
+    from benchmarks.suite import SUITE
+
+    t = SUITE["rand11x6"]()
+    cover = minimize(t, MinimizeOptions(exact=True, time_limit=3))
+    assert _passes(t, cover)
+    assert not cover.optimal and 0 < cover.lower_bound < cover.rows
+    assert cover.seconds < 3 + 5  # the limit is honoured up to verification and set-up

@@ -528,6 +528,28 @@ def _irredundant(pb: CoverProblem, chosen: Sequence[int]) -> list[Cube]:
     return [Cube(int(pb.primes.care[p]), int(pb.primes.value[p]), outputs[p]) for p in chosen if outputs[p]]
 
 
+def quick_lower_bound(table: Table, inverted: int, per_output: bool) -> int:
+    """A lower bound on rows (or, per output, on summed terms) without solving.
+
+    Essential primes found by the reductions (at most a second of them), plus the independent-row bound of what is
+    left: rows no two of which share a prime each need a prime of their own, and a minimum cover can always be made
+    of primes. Cost: the prime generation, matrix and reductions of the exact path, no solver.
+    """
+    n = table.n_inputs
+    on, dc = _point_sets(table, inverted)
+    groups = [[j] for j in range(table.n_outputs)] if per_output else [list(range(table.n_outputs))]
+    total = 0
+    for group in groups:
+        sub_on = [on[j] for j in group]
+        if not any(a.any() for a in sub_on):
+            continue
+        pb = build_problem(multi_output_primes(sub_on, [dc[j] for j in group], n), sub_on, n)
+        before = independent_rows_bound(pb)
+        reduce_problem(pb, time.monotonic() + 1.0)
+        total += max(before, len(pb.chosen) + independent_rows_bound(pb))
+    return total
+
+
 # -- the public entry ----------------------------------------------------------------------------------------------
 def _point_sets(table: Table, inverted: int) -> tuple[list[np.ndarray], list[np.ndarray]]:
     n = table.n_inputs

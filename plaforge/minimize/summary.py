@@ -41,11 +41,8 @@ def format_summary(cover: Cover) -> str:
         count = f"{s['rows']} rows (distinct product terms)"
     if s["optimal"]:
         verdict = "proven minimum"
-    elif s["method"] == "exact":
-        gap = total - s["lower_bound"]
-        verdict = f"not proven: lower bound {s['lower_bound']}, gap {gap}"
     else:
-        verdict = "heuristic, not proven minimum"
+        verdict = f"not proven minimum: lower bound {s['lower_bound']}, gap {total - s['lower_bound']}"
     terms = ", ".join(f"{k} {v}" for k, v in s["terms"].items())
     lines = [
         f"{count}, {s['literals']} literals, {s['inputs']} inputs -> {s['outputs']} outputs",
