@@ -2,9 +2,11 @@
 
 from __future__ import annotations
 
+import json
+
 import click
 
-from . import cli, not_built
+from . import cli
 
 
 @cli.command("luts")
@@ -12,6 +14,38 @@ from . import cli, not_built
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT input count.")
 @click.option("-o", "--output", "out", type=click.Path(dir_okay=False), help="Write the LUT network JSON here.")
 @click.option("--json", "as_json", is_flag=True, help="Print the LUT network JSON object and nothing else.")
-def luts_cmd(spec: str, k: int, out: str | None, as_json: bool) -> None:
-    """Map SPEC onto k-input LUTs and list each LUT's fan-ins and INIT."""
-    not_built("LUT mapping")
+@click.option("--init-format", "init_format", type=click.Choice(["verilog", "python", "bits"]), default="python",
+              show_default=True, help="How the listing writes INITs: sized hex literal, 0x integer, or bit string.")
+@click.option("--pad", is_flag=True,
+              help="In the listing and C header, give every INIT for a full k-input LUT (unused upper pins).")
+@click.option("--c-header", "c_header_path", type=click.Path(dir_okay=False),
+              help="Also write a C header with every INIT as a constant.")
+@click.option("--objective", type=click.Choice(["area", "depth"]), default="area", show_default=True,
+              help="Prefer fewer LUTs or fewer levels when the mapper has a choice.")
+def luts_cmd(spec: str, k: int, out: str | None, as_json: bool, init_format: str, pad: bool,
+             c_header_path: str | None, objective: str) -> None:
+    """Map SPEC onto k-input LUTs and list each LUT's fan-ins and INIT.
+
+    Every output is re-checked against SPEC (exhaustively, or with a SAT proof for wide tables) before anything
+    is written.
+    """
+    from ..fileio import write_text_atomic
+    from ..formats import read_spec
+    from ..lut import LutOptions, c_header, format_listing, map_luts
+    from ..lut.export import padded_network
+
+    table = read_spec(spec)
+    net = map_luts(table, k, LutOptions(objective=objective))  # type: ignore[arg-type]
+    if out is not None:
+        write_text_atomic(out, net.to_json())
+    shown = padded_network(net) if pad else net
+    if c_header_path is not None:
+        write_text_atomic(c_header_path, c_header(shown))
+    if as_json:
+        click.echo(json.dumps(net.to_json_obj()))
+        return
+    click.echo(format_listing(shown, init_format), nl=False)
+    if out is not None:
+        click.echo(f"LUT network JSON written to {out}")
+    if c_header_path is not None:
+        click.echo(f"C header written to {c_header_path}")

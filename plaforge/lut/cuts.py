@@ -358,7 +358,7 @@ def remap_network(net: LutNetwork, options: LutOptions) -> LutNetwork:
         m = map_subject(g, net.k, options.cut_limit, relax=relax)
         luts, drivers = mapping_to_luts(m)
         cand = LutNetwork(net.k, net.input_names, net.output_names, tuple(luts), tuple(drivers), {},
-                          f"{net.method}+cuts" + ("" if m.exhaustive else " (priority cuts)"))
+                          f"{net.method}+remap cuts" + ("" if m.exhaustive else " (priority cuts)"))
         if best is None or keyf(cand) < keyf(best):
             best = cand
     assert best is not None
@@ -437,7 +437,7 @@ def map_cover_outputs(net: LutNetwork, cover: Cover, outputs: Sequence[int], opt
     new_drivers = list(net.drivers)
     for j, d in zip(outputs, drivers):
         new_drivers[j] = d
-    suffix = "+cover cuts" + ("" if m.exhaustive else " (priority cuts)")
+    suffix = ("+" if net.method else "") + "cover cuts" + ("" if m.exhaustive else " (priority cuts)")
     return LutNetwork(net.k, net.input_names, net.output_names, net.luts + tuple(luts), tuple(new_drivers), {},
                       net.method + suffix)
 

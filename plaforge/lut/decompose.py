@@ -47,6 +47,9 @@ import numpy as np
 __all__ = ["Universe", "NetworkBuilder", "Decomposer"]
 
 
+REUSE_SCAN = 40  # LUTs tried per reuse step (largest support first, newest first)
+
+
 class Universe:
     """The points over a sorted tuple of table-input indices, with helpers to move arrays between supports."""
 
@@ -56,6 +59,9 @@ class Universe:
         self.size = 1 << len(inputs)
         ar = np.arange(self.size, dtype=np.int64)
         self.lits = [((ar >> p) & 1).astype(np.int64) for p in range(len(inputs))]
+        self.cache: dict[str, np.ndarray] = {}
+        self.by_function: dict[bytes, str] = {}
+        self.indexed = 0
 
     def literal(self, i: int) -> np.ndarray:
         """Global array of table input ``i`` (must be in the universe)."""
@@ -164,10 +170,29 @@ class NetworkBuilder:
         if sig in self.index:
             i = self.index[sig]
             return u.literal(i) if i in u.pos else None
+        got = u.cache.get(sig)
+        if got is not None:
+            return got
         node = self.by_name[sig]
         if node.truth is None or any(i not in u.pos for i in node.support):
             return None
-        return u.expand(node.support, node.truth)
+        arr = u.expand(node.support, node.truth)
+        arr.setflags(write=False)
+        u.cache[sig] = arr
+        return arr
+
+    def function_index(self, u: Universe) -> dict[bytes, str]:
+        """Packed global function over ``u`` -> first signal computing it (inputs and LUTs inside ``u``)."""
+        if not u.by_function:
+            for i in u.inputs:
+                u.by_function.setdefault(np.packbits(u.literal(i)).tobytes(), self.input_names[i])
+        while u.indexed < len(self.nodes):
+            node = self.nodes[u.indexed]
+            u.indexed += 1
+            arr = self.over(node.name, u)
+            if arr is not None:
+                u.by_function.setdefault(np.packbits(arr).tobytes(), node.name)
+        return u.by_function
 
     def add_lut(self, inputs: tuple[str, ...], init: int) -> str:
         """The LUT with these fan-ins and INIT (an existing one when structurally equal)."""
@@ -242,10 +267,15 @@ class Decomposer:
         if not off.any():
             return "1"
         # an existing signal that fits (identical function, or equal up to don't-cares)
-        for cand in self._compatible_candidates(u):
-            g = self.builder.over(cand, u)
-            if g is not None and not (on & ~g).any() and not (off & g).any():
-                return cand
+        if (on | off).all():
+            hit = self.builder.function_index(u).get(np.packbits(on).tobytes())
+            if hit is not None:
+                return hit
+        else:
+            for cand in self._compatible_candidates(u, sigs):
+                g = self.builder.over(cand, u)
+                if g is not None and not (on & ~g).any() and not (off & g).any():
+                    return cand
         if len(sigs) > self.k:
             raise AssertionError(f"make_lut called with {len(sigs)} > k signals")
         loc = local_function(arrays, on, off)
@@ -256,10 +286,16 @@ class Decomposer:
             init |= 1 << int(q)
         return self.builder.add_lut(tuple(sigs), init)
 
-    def _compatible_candidates(self, u: Universe) -> list[str]:
-        names = [self.builder.input_names[i] for i in u.inputs]
+    def _compatible_candidates(self, u: Universe, sigs: Sequence[str]) -> list[str]:
+        """Signals worth testing for don't-care compatibility: inputs and LUTs whose support lies within the
+        inputs that ``sigs`` depend on."""
+        within: set[int] = set()
+        for s in sigs:
+            sp = self.builder.support(s)
+            within.update(u.inputs if sp is None else sp)
+        names = [self.builder.input_names[i] for i in sorted(within)]
         names += [n.name for n in self.builder.nodes
-                  if n.truth is not None and all(i in u.pos for i in n.support)]
+                  if n.truth is not None and all(i in within for i in n.support)]
         return names
 
     # -- realizing one output --------------------------------------------------------------------------------
@@ -296,9 +332,11 @@ class Decomposer:
         cands = [n for n in self.builder.nodes
                  if n.truth is not None and len(n.support) >= 2 and n.name not in present
                  and all(i in u.pos for i in n.support)]
-        cands.sort(key=lambda n: -len(n.support))
-        for node in cands:
-            g = u.expand(node.support, node.truth)  # type: ignore[arg-type]
+        order = {n.name: x for x, n in enumerate(self.builder.nodes)}
+        cands.sort(key=lambda n: (-len(n.support), -order[n.name]))
+        for node in cands[:REUSE_SCAN]:
+            g = self.builder.over(node.name, u)
+            assert g is not None
             sup = set(node.support)
             # drop first the signals whose inputs lie inside the candidate's support
             inside = [b for b, s in enumerate(sigs)

@@ -7,15 +7,29 @@ from __future__ import annotations
 
 import re
 
-from .init import INIT_STYLES, format_init
+from .init import INIT_STYLES, format_init, pad_init
 from .network import Lut, LutNetwork
 
-__all__ = ["format_listing", "c_header", "c_identifier", "net_init_constants", "GLITCH_NOTE", "describe_lut"]
+__all__ = ["padded_network", "format_listing", "c_header", "c_identifier", "net_init_constants", "GLITCH_NOTE", "describe_lut"]
 
 GLITCH_NOTE = (
     "Note: LUT outputs can glitch while inputs change (register them where that matters); close timing in the "
     "device flow."
 )
+
+
+def padded_network(net: LutNetwork) -> LutNetwork:
+    """The same network with every LUT given ``k`` fan-ins: unused upper pins are written ``"0"`` (tie low)
+    and the INIT is repeated (:func:`plaforge.lut.init.pad_init`), as a physical k-input LUT needs it.
+
+    The function is unchanged (a fan-in tied to ``"0"`` selects the low half, which equals the original INIT).
+    """
+    luts = tuple(
+        Lut(lut.name, lut.inputs + ("0",) * (net.k - len(lut.inputs)), pad_init(lut.init, len(lut.inputs), net.k))
+        for lut in net.luts
+    )
+    return LutNetwork(net.k, net.input_names, net.output_names, luts, net.drivers, dict(net.lower_bounds),
+                      net.method)
 
 
 def describe_lut(lut: Lut) -> str:

@@ -39,7 +39,7 @@ import numpy as np
 
 from ..cube import Cube, Cover
 from ..errors import CheckFailed
-from ..table import Table, cubes_bits, unpack_bits
+from ..table import DEFAULT_ENUM_LIMIT, Table, cubes_bits, unpack_bits
 from .decompose import Decomposer, NetworkBuilder, Pending
 from .network import Lut, LutNetwork
 from .options import LutOptions
@@ -102,8 +102,44 @@ def _incompatible(table: Table, a: int, b: int) -> bool:
         x.intersects(y) for x in table.off_cubes(a) for y in table.on_cubes(b))
 
 
-def lower_bounds(table: Table, k: int) -> dict[str, int]:
+def _essential_sat(table: Table, j: int) -> int:
+    from .verify_sat import sat_point
+
+    mentioned = 0
+    for sets in (table.on[j], table.dc[j], table.off[j]):
+        for c in sets or ():
+            mentioned |= c.care
+    mask = 0
+    for i in range(table.n_inputs):
+        if mentioned >> i & 1 and sat_point(table, [(j, "on", 0), (j, "off", 1 << i)]) is not None:
+            mask |= 1 << i
+    return mask
+
+
+def _trivial_sat(table: Table, j: int) -> bool:
+    from .verify_sat import sat_point
+
+    if sat_point(table, [(j, "on", 0)]) is None or sat_point(table, [(j, "off", 0)]) is None:
+        return True
+    for i in range(table.n_inputs):
+        if (sat_point(table, [(j, "on", 0)], [(-(i + 1),)]) is None
+                and sat_point(table, [(j, "off", 0)], [(i + 1,)]) is None):
+            return True
+    return False
+
+
+def _incompatible_sat(table: Table, a: int, b: int) -> bool:
+    from .verify_sat import sat_point
+
+    return (sat_point(table, [(a, "on", 0), (b, "off", 0)]) is not None
+            or sat_point(table, [(a, "off", 0), (b, "on", 0)]) is not None)
+
+
+def lower_bounds(table: Table, k: int, enum_limit: int = DEFAULT_ENUM_LIMIT) -> dict[str, int]:
     """Proven lower bounds on LUT count and depth for ``table`` with k-LUTs (see module docs).
+
+    Tables wider than ``enum_limit`` are examined with SAT queries on the sets as given (no complement);
+    narrower ones with cube operations.
 
     Returns
     -------
@@ -111,16 +147,21 @@ def lower_bounds(table: Table, k: int) -> dict[str, int]:
         ``{"count": c, "depth": d, "count_cone": ..., "count_outputs": ...}``; ``count`` is the larger of the two
         count bounds.
     """
+    sat = table.n_inputs > enum_limit
+    essential = _essential_sat if sat else essential_inputs
+    trivial = _trivial_sat if sat else _trivial
+    incompatible = _incompatible_sat if sat else _incompatible
     cone = depth = 0
     chosen: list[int] = []
+    triv = [trivial(table, j) for j in range(table.n_outputs)]
     for j in range(table.n_outputs):
-        e = essential_inputs(table, j).bit_count()
+        e = essential(table, j).bit_count()
         if e >= 2:
             cone = max(cone, math.ceil((e - 1) / (k - 1)))
             depth = max(depth, math.ceil(math.log(e, k) - 1e-9))
-        if e >= 1 and not _trivial(table, j) and all(_incompatible(table, j, c) for c in chosen):
+        if e >= 1 and not triv[j] and all(incompatible(table, j, c) for c in chosen):
             chosen.append(j)
-    if any(not _trivial(table, j) for j in range(table.n_outputs)):
+    if not all(triv):
         depth = max(depth, 1)
     return {"count": max(cone, len(chosen)), "depth": depth, "count_cone": cone, "count_outputs": len(chosen)}
 
@@ -260,8 +301,14 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
     builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@t"), global_limit=max(opts.decompose_limit, 1))
     dec = Decomposer(builder, k, budget=opts.bound_set_budget, beam=opts.beam)
     m = table.n_outputs
-    supports = [table.support(j) for j in range(m)]
-    sizes = [s.bit_count() for s in supports]
+    if table.n_inputs > opts.enum_limit:
+        # beyond the enumeration limit nothing is enumerated, not even a complement: every output goes through
+        # the cover (whose supports are those of its cubes) and the cut-based path
+        supports = [0] * m
+        sizes = [opts.decompose_limit + 1] * m
+    else:
+        supports = [table.support(j) for j in range(m)]
+        sizes = [s.bit_count() for s in supports]
     narrow = sorted((j for j in range(m) if sizes[j] <= opts.decompose_limit), key=lambda j: (sizes[j], j))
     wide = [j for j in range(m) if sizes[j] > opts.decompose_limit]
     drivers: list[str] = ["0"] * m
@@ -276,7 +323,7 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
         sigs = [table.input_names[i] for i in u.inputs]
         drivers[j] = dec.realize(u, sigs, on, off)
     luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
-    method = "decomposition"
+    method = "decomposition" if narrow else ""
     net = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {}, method)
     if wide:
         from .cuts import map_cover_outputs
@@ -292,7 +339,7 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
             net = alt
     net = _resolve_constant_luts(net)
     net = tidy_network(net, prefix)
-    bounds = lower_bounds(table, k)
+    bounds = lower_bounds(table, k, opts.enum_limit)
     net = LutNetwork(net.k, net.input_names, net.output_names, net.luts, net.drivers, bounds, net.method)
     if opts.verify:
         from .verify_sat import check_network_any

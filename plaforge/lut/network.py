@@ -79,6 +79,7 @@ class LutNetwork:
     @property
     def depth(self) -> int:
         level = {name: 0 for name in self.input_names}
+        level["0"] = level["1"] = 0
         for lut in self.luts:
             level[lut.name] = 1 + max((level[i] for i in lut.inputs), default=0)
         return max((level.get(d, 0) for d in self.drivers), default=0)

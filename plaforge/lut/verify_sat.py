@@ -21,7 +21,7 @@ from ..table import DEFAULT_ENUM_LIMIT, Table
 from ..verify.equivalence import OutputVerdict, Verdict, _names_match, check_network
 from .network import LutNetwork
 
-__all__ = ["check_network_sat", "check_network_any"]
+__all__ = ["check_network_sat", "check_network_any", "sat_point", "region"]
 
 
 def _cone_clauses(net: LutNetwork, driver: str, var: dict[str, int]) -> tuple[list[tuple[int, ...]], int]:
@@ -74,21 +74,79 @@ def _cone_clauses(net: LutNetwork, driver: str, var: dict[str, int]) -> tuple[li
     return clauses, nxt
 
 
-def _cube_set(cubes: Sequence[Cube], n: int, first: int) -> tuple[list[tuple[int, ...]], int]:
-    """Clauses saying "the point lies in one of ``cubes``" with selectors from variable ``first`` on."""
-    clauses: list[tuple[int, ...]] = []
-    sel = []
-    v = first
-    for c in cubes:
-        s = v
-        v += 1
-        sel.append(s)
-        for i in range(n):
-            if c.care >> i & 1:
-                lit = i + 1 if c.value >> i & 1 else -(i + 1)
-                clauses.append((-s, lit))
-    clauses.append(tuple(sel))
-    return clauses, v
+Region = list[tuple[str, Sequence[Cube]]]
+
+
+def region(table: Table, j: int, kind: str) -> Region:
+    """Output ``j``'s ON or OFF set as constraints on a point, from the sets as *given* (no complement is ever
+    computed): ``("in", cubes)`` the point lies in one of the cubes, ``("out", cubes)`` in none of them."""
+    on, dc, off = table.on[j], table.dc[j], table.off[j]
+    mine, other = (on, off) if kind == "on" else (off, on)
+    if mine is not None:
+        return [("in", mine)] + ([("out", dc)] if dc else [])
+    return [("out", tuple(other or ()) + tuple(dc or ()))]
+
+
+class _Cnf:
+    """A growing CNF over point variables ``1..n`` (input ``i`` is variable ``i + 1``) plus fresh variables."""
+
+    def __init__(self, n: int) -> None:
+        self.n = n
+        self.top = n
+        self.clauses: list[tuple[int, ...]] = []
+
+    def fresh(self) -> int:
+        self.top += 1
+        return self.top
+
+    def constrain(self, reg: Region, flip: int = 0) -> None:
+        """Add "the point (with the inputs in mask ``flip`` negated) satisfies ``reg``"."""
+
+        def lit(i: int, val: int) -> int:
+            v = i + 1
+            positive = bool(val) != bool(flip >> i & 1)
+            return v if positive else -v
+
+        for mode, cubes in reg:
+            if mode == "in":
+                sel = []
+                for c in cubes:
+                    s = self.fresh()
+                    sel.append(s)
+                    for i in range(self.n):
+                        if c.care >> i & 1:
+                            self.clauses.append((-s, lit(i, c.value >> i & 1)))
+                self.clauses.append(tuple(sel))
+            else:
+                for c in cubes:
+                    self.clauses.append(tuple(-lit(i, c.value >> i & 1) for i in range(self.n) if c.care >> i & 1))
+
+    def solve(self, extra: Sequence[tuple[int, ...]] = ()) -> int | None:
+        """A satisfying point (bit ``i`` = input ``i``), or ``None``."""
+        from pyeda.boolalg import picosat
+
+        clauses = self.clauses + list(extra)
+        if any(len(c) == 0 for c in clauses):
+            return None
+        if not clauses:
+            return 0
+        sol = picosat.satisfy_one(max(self.top, 1), clauses)
+        if sol is None:
+            return None
+        point = 0
+        for lit in sol:
+            if 0 < lit <= self.n:
+                point |= 1 << (lit - 1)
+        return point
+
+
+def sat_point(table: Table, parts: Sequence[tuple[int, str, int]], extra: Sequence[tuple[int, ...]] = ()) -> int | None:
+    """A point ``p`` such that for each ``(j, kind, flip)`` the point ``p ^ flip`` is in output ``j``'s ``kind``
+    set (``"on"``/``"off"``), or ``None`` when there is none. ``extra`` adds raw clauses over point variables."""
+    cnf = _Cnf(table.n_inputs)
+    for j, kind, flip in parts:
+        cnf.constrain(region(table, j, kind), flip)
+    return cnf.solve(extra)
 
 
 def check_network_sat(table: Table, net: LutNetwork, artifact: str = "LUT network") -> Verdict:
@@ -100,34 +158,29 @@ def check_network_sat(table: Table, net: LutNetwork, artifact: str = "LUT networ
         Per output ``method="sat"``, ``vectors=0`` (no enumeration), and on failure the counterexample point with
         the expected and actual values.
     """
-    from pyeda.boolalg import picosat
-
     _names_match(table, net.input_names, net.output_names, artifact)
     n = table.n_inputs
     res = []
     for j, name in enumerate(table.output_names):
-        var = {nm: i + 1 for i, nm in enumerate(table.input_names)}
         driver = net.drivers[j]
-        clauses, nxt = _cone_clauses(net, driver, var)
         failure = None
-        for want, cubes in ((1, table.on_cubes(j)), (0, table.off_cubes(j))):
-            if not cubes:
-                continue
-            extra, top = _cube_set(cubes, n, nxt)
-            # the network gives the opposite of ``want``
+        for want, kind in ((1, "on"), (0, "off")):
+            cnf = _Cnf(n)
+            var = {nm: i + 1 for i, nm in enumerate(table.input_names)}
             if driver in ("0", "1"):
                 if int(driver) == want:
                     continue
                 out_clause: list[tuple[int, ...]] = []
             else:
+                var_top = cnf.top
+                clauses, nxt = _cone_clauses(net, driver, var)
+                cnf.clauses.extend(clauses)
+                cnf.top = max(var_top, nxt - 1)
                 y = var[driver]
                 out_clause = [(-y,) if want else (y,)]
-            sol = picosat.satisfy_one(top - 1, clauses + extra + out_clause)
-            if sol is not None:
-                point = 0
-                for lit in sol:
-                    if 0 < lit <= n:
-                        point |= 1 << (lit - 1)
+            cnf.constrain(region(table, j, kind))
+            point = cnf.solve(out_clause)
+            if point is not None:
                 failure = (point, want, 1 - want)
                 break
         res.append(OutputVerdict(name, failure is None, 0, "sat", failure))
