@@ -9,12 +9,15 @@ per cube or LUT, so a 20-input, 16-output cover checks in well under a second.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from ..cube import Cover
-from ..lut.network import LutNetwork
 from ..table import DEFAULT_ENUM_LIMIT, Table, _literal_bits, _valid_mask, cubes_bits
+
+if TYPE_CHECKING:  # annotations only: importing plaforge.lut here closes an import cycle through lut.verify_sat
+    from ..lut.network import LutNetwork
 
 __all__ = ["OutputVerdict", "Verdict", "check_cover", "check_network", "cover_bits", "first_point", "network_bits"]
 
