@@ -4,7 +4,8 @@ Pipeline
 --------
 1. Per output, its support ``S_j`` (:meth:`plaforge.table.Table.support`: don't-cares used greedily to drop
    inputs). Constants and plain inputs need no LUT; a complemented input is one 1-input LUT (an inverter).
-2. Outputs with ``|S_j| <= options.decompose_limit``, in order of growing support, are realized by functional
+2. Outputs that one function can serve (equal, or equal up to their don't-cares) are merged into one.
+   Outputs with ``|S_j| <= options.decompose_limit``, in order of growing support, are realized by functional
    decomposition on their truth tables (:mod:`plaforge.lut.decompose`), every output reusing the LUTs built for
    the earlier ones (identical or don't-care-compatible functions share one LUT; a LUT that computes a useful
    sub-function, such as a carry, is reused as a signal). An output with ``|S_j| <= k`` is one LUT.
@@ -312,16 +313,36 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
     narrow = sorted((j for j in range(m) if sizes[j] <= opts.decompose_limit), key=lambda j: (sizes[j], j))
     wide = [j for j in range(m) if sizes[j] > opts.decompose_limit]
     drivers: list[str] = ["0"] * m
-    jobs = []
+    # outputs that one function can serve (equal, or equal up to don't-cares) are realized once
+    groups: list[tuple[list[int], tuple[int, ...], np.ndarray, np.ndarray]] = []
     for j in narrow:
-        sup = tuple(i for i in range(table.n_inputs) if supports[j] >> i & 1)
-        u = builder.universe(sup)
+        # the inputs the sets mention keep every don't-care choice open (projection onto them is exact); the
+        # greedy support is used only when that is too wide
+        mentioned = 0
+        for c in table.on_cubes(j) + table.off_cubes(j):
+            mentioned |= c.care
+        mask = mentioned if mentioned.bit_count() <= opts.decompose_limit else supports[j]
+        sup = tuple(i for i in range(table.n_inputs) if mask >> i & 1)
         on, off = _local_sets(table, j, sup)
-        jobs.append((j, u, on, off))
-    for x, (j, u, on, off) in enumerate(jobs):
-        dec.pending = [Pending(uu, a, b) for _, uu, a, b in jobs[x + 1:]]
+        for x, (outs, gsup, gon, goff) in enumerate(groups):
+            union = tuple(sorted(set(gsup) | set(sup)))
+            if len(union) > opts.decompose_limit:
+                continue
+            uu = builder.universe(union)
+            a_on, a_off = uu.expand(gsup, gon), uu.expand(gsup, goff)
+            b_on, b_off = uu.expand(sup, on), uu.expand(sup, off)
+            if not (a_on & b_off).any() and not (a_off & b_on).any():
+                groups[x] = (outs + [j], union, a_on | b_on, a_off | b_off)
+                break
+        else:
+            groups.append(([j], sup, on, off))
+    for x, (outs, sup, on, off) in enumerate(groups):
+        dec.pending = [Pending(builder.universe(s2), a, b) for _, s2, a, b in groups[x + 1:]]
+        u = builder.universe(sup)
         sigs = [table.input_names[i] for i in u.inputs]
-        drivers[j] = dec.realize(u, sigs, on, off)
+        signal = dec.realize(u, sigs, on, off)
+        for j in outs:
+            drivers[j] = signal
     luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
     method = "decomposition" if narrow else ""
     net = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {}, method)
