@@ -26,7 +26,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Iterator, Sequence
 from dataclasses import dataclass, field, replace
 
-__all__ = ["Cube", "Cover", "complement", "cubes_intersect", "cube_list_contains", "drop_inputs"]
+__all__ = ["Cover", "Cube", "complement", "cube_list_contains", "cubes_intersect", "drop_inputs", "sharp"]
 
 
 @dataclass(frozen=True, slots=True, order=True)
@@ -230,6 +230,25 @@ def _complement(cubes: list[Cube]) -> list[Cube]:
     out += [Cube(c.care | bit, c.value, 1) for c in lo if c not in both]
     out += [Cube(c.care | bit, c.value | bit, 1) for c in hi if c not in both]
     return _absorb(out)
+
+
+def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int | None = None) -> list[Cube]:
+    """Points of ``a`` not in any cube of ``b``, as cubes (feeding ``outputs``, or each ``a`` cube's own).
+
+    Works cube by cube: only the cubes of ``b`` that touch ``x`` are cofactored by ``x`` and complemented, so the
+    cost follows local overlap, never the size of all of ``b`` or 2**n.
+    """
+    out: list[Cube] = []
+    for x in a:
+        outs = x.outputs if outputs is None else outputs
+        touching = [y for y in b if y.intersects(x)]
+        if not touching:
+            out.append(Cube(x.care, x.value, outs))
+            continue
+        cof = [Cube(y.care & ~x.care, y.value & ~x.care) for y in touching]
+        for z in _complement(cof):
+            out.append(Cube(z.care | x.care, z.value | x.value, outs))
+    return list(dict.fromkeys(out))
 
 
 def cube_list_contains(cubes: Sequence[Cube], cube: Cube) -> bool:

@@ -25,12 +25,20 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .cube import Cube, complement, drop_inputs
+from .cube import Cube, complement, drop_inputs, sharp
 from .errors import TooWide
 
 __all__ = [
-    "Bus", "Table", "DEFAULT_ENUM_LIMIT", "cube_bits", "cubes_bits", "popcount_bits", "point_bits", "pack_bool",
-    "unpack_bits", "bool_array_to_cubes",
+    "DEFAULT_ENUM_LIMIT",
+    "Bus",
+    "Table",
+    "bool_array_to_cubes",
+    "cube_bits",
+    "cubes_bits",
+    "pack_bool",
+    "point_bits",
+    "popcount_bits",
+    "unpack_bits",
 ]
 
 DEFAULT_ENUM_LIMIT = 24
@@ -306,16 +314,7 @@ def _lists_intersect(a: Sequence[Cube], b: Sequence[Cube]) -> bool:
 
 def _sharp(a: Sequence[Cube], b: Sequence[Cube]) -> tuple[Cube, ...]:
     """Points of ``a`` not in ``b``, as cubes."""
-    if not any(x.intersects(y) for x in a for y in b):
-        return tuple(a)
-    comp = complement(list(b))
-    out = []
-    for x in a:
-        for y in comp:
-            z = x.intersect(y)
-            if z is not None:
-                out.append(Cube(z.care, z.value, x.outputs))
-    return tuple(dict.fromkeys(out))
+    return tuple(sharp(a, b))
 
 
 def bool_array_to_cubes(v: np.ndarray, n: int, outputs: int = 1) -> list[Cube]:

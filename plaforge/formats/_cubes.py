@@ -18,7 +18,8 @@ from __future__ import annotations
 
 from collections.abc import Iterable, Sequence
 
-from ..cube import Cube, complement
+from ..cube import Cube
+from ..cube import sharp as _cube_sharp
 
 __all__ = [
     "and_lists",
@@ -87,18 +88,8 @@ def and_lists(a: Sequence[Cube], b: Sequence[Cube]) -> list[Cube]:
 
 
 def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int = 1) -> list[Cube]:
-    """Points of ``a`` not in any cube of ``b``, as cubes feeding ``outputs``."""
-    out: list[Cube] = []
-    for x in a:
-        touching = [y for y in b if y.intersects(x)]
-        if not touching:
-            out.append(Cube(x.care, x.value, outputs))
-            continue
-        # complement of the touching cubes inside x: cofactor them by x, complement, then re-impose x
-        cof = [Cube(y.care & ~x.care, y.value & ~x.care) for y in touching]
-        for z in complement(cof):
-            out.append(Cube(z.care | x.care, z.value | x.value, outputs))
-    return list(dict.fromkeys(out))
+    """Points of ``a`` not in any cube of ``b``, as cubes feeding ``outputs`` (see :func:`plaforge.cube.sharp`)."""
+    return _cube_sharp(a, b, outputs)
 
 
 def find_overlap(
