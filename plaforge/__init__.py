@@ -4,5 +4,5 @@ from .cube import Cover, Cube
 from .errors import CheckFailed, PlaforgeError, SpecError, TooWide
 from .table import DEFAULT_ENUM_LIMIT, Bus, Table
 
-__all__ = ["Cube", "Cover", "Table", "Bus", "DEFAULT_ENUM_LIMIT", "PlaforgeError", "SpecError", "CheckFailed", "TooWide"]
+__all__ = ["DEFAULT_ENUM_LIMIT", "Bus", "CheckFailed", "Cover", "Cube", "PlaforgeError", "SpecError", "Table", "TooWide"]
 __version__ = "0.1.0"

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import os
 
-__all__ = ["PlaforgeError", "SpecError", "CheckFailed", "TooWide", "SolverFailure"]
+__all__ = ["CheckFailed", "PlaforgeError", "SolverFailure", "SpecError", "TooWide"]
 
 
 class PlaforgeError(Exception):

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from .table import Table
 
-__all__ = ["table_summary", "CAUTION"]
+__all__ = ["CAUTION", "table_summary"]
 
 CAUTION = (
     "Caution: combinational outputs can glitch while inputs change; register them or prove the hazard harmless. "

@@ -6,7 +6,7 @@ from pathlib import Path
 
 from .errors import PlaforgeError
 
-__all__ = ["sample_path", "SAMPLES_DIR"]
+__all__ = ["SAMPLES_DIR", "sample_path"]
 
 SAMPLES_DIR = Path(__file__).resolve().parent.parent / "samples"
 

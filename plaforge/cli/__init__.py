@@ -14,7 +14,7 @@ import click
 
 from ..errors import PlaforgeError
 
-__all__ = ["main", "cli"]
+__all__ = ["cli", "main"]
 
 
 class _Group(click.Group):
@@ -50,7 +50,7 @@ def not_built(what: str) -> None:
 
 
 # Commands live one per module; importing registers them on the group.
-from . import commands as _commands  # noqa: E402,F401
+from . import commands as _commands  # noqa: F401
 
 if __name__ == "__main__":  # pragma: no cover
     sys.exit(main())

@@ -11,8 +11,9 @@ from pathlib import Path
 
 from ..errors import SpecError
 from ..table import Table
+from ._files import read_text
 
-__all__ = ["read_spec", "READERS"]
+__all__ = ["READERS", "read_spec"]
 
 READERS = {".pla": "pla", ".csv": "csv", ".toml": "spec"}
 
@@ -23,16 +24,7 @@ def read_spec(path: str | os.PathLike[str]) -> Table:
     kind = READERS.get(p.suffix.lower())
     if kind is None:
         raise SpecError(p, None, f"unknown spec extension {p.suffix!r}; expected one of .pla, .csv, .toml")
-    try:
-        text = p.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise SpecError(p, None, "no such file") from None
-    except IsADirectoryError:
-        raise SpecError(p, None, "is a directory, expected a spec file") from None
-    except UnicodeDecodeError as exc:
-        raise SpecError(p, None, f"not UTF-8 text (byte {exc.start}); expected a text spec file") from None
-    except OSError as exc:
-        raise SpecError(p, None, f"cannot read: {exc.strerror}") from None
+    text = read_text(p)
     if kind == "pla":
         from .pla import parse_pla
 
