@@ -321,7 +321,13 @@ class Decomposer:
             rest = sigs[1:]
             f0 = self.realize(u, rest, on & ~xa, off & ~xa)
             f1 = self.realize(u, rest, on & xa, off & xa)
-            sigs = [x] + [s for s in dict.fromkeys((f0, f1)) if s not in ("0", "1")]
+            if self.k == 2:
+                # a 2:1 mux does not fit a 2-LUT: f = (~x & f0) | (x & f1), each half one 2-LUT
+                h0 = self.make_lut(u, [x, f0], on & ~xa, (off & ~xa) | xa)
+                h1 = self.make_lut(u, [x, f1], on & xa, (off & xa) | ~xa)
+                sigs = [s for s in dict.fromkeys((h0, h1)) if s not in ("0", "1")]
+            else:
+                sigs = [x] + [s for s in dict.fromkeys((f0, f1)) if s not in ("0", "1")]
             arrays = self._arrays(sigs, u)
             sigs, arrays = self._reduce(sigs, arrays, on, off)
         return self.make_lut(u, sigs, on, off)
