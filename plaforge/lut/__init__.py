@@ -19,6 +19,18 @@ from .options import LutOptions
 from .verify_sat import check_network_any, check_network_sat
 
 __all__ = [
-    "Lut", "LutNetwork", "init_hex", "map_luts", "LutOptions", "lower_bounds", "format_init", "pad_init",
-    "INIT_STYLES", "c_header", "format_listing", "net_init_constants", "check_network_any", "check_network_sat",
+    "INIT_STYLES",
+    "Lut",
+    "LutNetwork",
+    "LutOptions",
+    "c_header",
+    "check_network_any",
+    "check_network_sat",
+    "format_init",
+    "format_listing",
+    "init_hex",
+    "lower_bounds",
+    "map_luts",
+    "net_init_constants",
+    "pad_init",
 ]

@@ -38,8 +38,16 @@ from ..cube import Cover
 from .network import Lut, LutNetwork
 from .options import LutOptions
 
-__all__ = ["SubjectGraph", "CutMapping", "map_subject", "graph_from_network", "graph_from_cover",
-           "remap_network", "map_cover_outputs", "min_depth_bruteforce"]
+__all__ = [
+    "CutMapping",
+    "SubjectGraph",
+    "graph_from_cover",
+    "graph_from_network",
+    "map_cover_outputs",
+    "map_subject",
+    "min_depth_bruteforce",
+    "remap_network",
+]
 
 INF = 1 << 30
 

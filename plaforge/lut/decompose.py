@@ -44,7 +44,7 @@ from itertools import combinations
 
 import numpy as np
 
-__all__ = ["Universe", "NetworkBuilder", "Decomposer"]
+__all__ = ["Decomposer", "NetworkBuilder", "Universe"]
 
 
 REUSE_SCAN = 40  # LUTs tried per reuse step (largest support first, newest first)

@@ -7,10 +7,10 @@ from __future__ import annotations
 
 import re
 
-from .init import INIT_STYLES, format_init, pad_init
+from .init import INIT_STYLES, drop_unused_inputs, format_init, pad_init
 from .network import Lut, LutNetwork
 
-__all__ = ["padded_network", "format_listing", "c_header", "c_identifier", "net_init_constants", "GLITCH_NOTE", "describe_lut"]
+__all__ = ["GLITCH_NOTE", "c_header", "c_identifier", "describe_lut", "format_listing", "net_init_constants", "padded_network"]
 
 GLITCH_NOTE = (
     "Note: LUT outputs can glitch while inputs change (register them where that matters); close timing in the "
@@ -33,12 +33,14 @@ def padded_network(net: LutNetwork) -> LutNetwork:
 
 
 def describe_lut(lut: Lut) -> str:
-    """A few words for LUTs that are simple gates (inverter, buffer), else an empty string."""
-    if len(lut.inputs) == 1:
-        if lut.init == 0b01:
-            return f"inverter of {lut.inputs[0]}"
-        if lut.init == 0b10:
-            return f"buffer of {lut.inputs[0]}"
+    """A few words for LUTs that are simple gates (inverter, buffer; padding ignored), else an empty string."""
+    init, keep = drop_unused_inputs(lut.init, len(lut.inputs))
+    if len(keep) == 1:
+        name = lut.inputs[keep[0]]
+        if init == 0b01:
+            return f"inverter of {name}"
+        if init == 0b10:
+            return f"buffer of {name}"
     return ""
 
 

@@ -19,8 +19,15 @@ from collections.abc import Sequence
 from typing import Literal
 
 __all__ = [
-    "InitStyle", "INIT_STYLES", "format_init", "pad_init", "init_from_bits", "init_bits", "permute_init",
-    "drop_unused_inputs", "depends_on",
+    "INIT_STYLES",
+    "InitStyle",
+    "depends_on",
+    "drop_unused_inputs",
+    "format_init",
+    "init_bits",
+    "init_from_bits",
+    "pad_init",
+    "permute_init",
 ]
 
 InitStyle = Literal["verilog", "python", "bits"]

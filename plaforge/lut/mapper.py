@@ -38,14 +38,14 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..cube import Cube, Cover
+from ..cube import Cover, Cube
 from ..errors import CheckFailed
 from ..table import DEFAULT_ENUM_LIMIT, Table, cubes_bits, unpack_bits
 from .decompose import Decomposer, NetworkBuilder, Pending
 from .network import Lut, LutNetwork
 from .options import LutOptions
 
-__all__ = ["map_luts", "lower_bounds", "essential_inputs", "tidy_network"]
+__all__ = ["essential_inputs", "lower_bounds", "map_luts", "tidy_network"]
 
 
 def _project(cubes: Sequence[Cube], support: Sequence[int]) -> list[Cube]:

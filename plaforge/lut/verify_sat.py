@@ -21,7 +21,7 @@ from ..table import DEFAULT_ENUM_LIMIT, Table
 from ..verify.equivalence import OutputVerdict, Verdict, _names_match, check_network
 from .network import LutNetwork
 
-__all__ = ["check_network_sat", "check_network_any", "sat_point", "region"]
+__all__ = ["check_network_any", "check_network_sat", "region", "sat_point"]
 
 
 def _cone_clauses(net: LutNetwork, driver: str, var: dict[str, int]) -> tuple[list[tuple[int, ...]], int]:
