@@ -349,7 +349,7 @@ def graph_from_network(net: LutNetwork) -> SubjectGraph:
         g.funcs.append(lut.init)
         g.names.append(lut.name)
         ids[lut.name] = v
-    g.outputs = [ids[d] if d in ids else d for d in net.drivers]
+    g.outputs = [ids.get(d, d) for d in net.drivers]
     return g
 
 

@@ -1,0 +1,141 @@
+"""LUT mapping benchmark: plaforge's mapper against a straightforward mapping of the minimized two-level cover and
+against the proven lower bounds, for k = 4 and k = 6, on the suite of :mod:`benchmarks.suite`.
+
+Run from the repository root::
+
+    python -m benchmarks.bench_luts            # prints the table; the figures in docs/bench_luts.txt come from it
+
+Baseline ("two-level"): the cover from :func:`plaforge.minimize.minimize`, each product term as a tree of k-input
+AND LUTs (literal polarities folded into the first level), each output as a tree of k-input OR LUTs over its terms
+(an inverter on top for an output realized in complement). Every network, baseline included, is re-checked against
+its table (exhaustive, or SAT for the wide entry) before its figures are printed.
+"""
+
+from __future__ import annotations
+
+import os
+import platform
+import subprocess
+import sys
+import time
+from collections.abc import Sequence
+
+from plaforge.cube import Cover
+from plaforge.lut import LutNetwork, check_network_any, map_luts
+from plaforge.lut.mapper import tidy_network
+from plaforge.lut.network import Lut
+from plaforge.minimize import minimize
+
+from .suite import SUITE
+
+
+def two_level_luts(cover: Cover, k: int) -> LutNetwork:
+    """The straightforward k-LUT mapping of a two-level cover (see module docs)."""
+    luts: list[Lut] = []
+
+    def new(inputs: Sequence[tuple[str, int]], op: str) -> str:
+        # op "and": output 1 when every input equals its polarity; "or": when any does
+        m = len(inputs)
+        init = 0
+        for p in range(1 << m):
+            hits = [(p >> b & 1) == pol for b, (_, pol) in enumerate(inputs)]
+            if (all(hits) if op == "and" else any(hits)):
+                init |= 1 << p
+        name = f"@b{len(luts)}"
+        luts.append(Lut(name, tuple(s for s, _ in inputs), init))
+        return name
+
+    def tree(items: list[tuple[str, int]], op: str) -> tuple[str, int]:
+        while len(items) > 1:
+            items = [(new(items[x:x + k], op), 1) if len(items[x:x + k]) > 1 else items[x]
+                     for x in range(0, len(items), k)]
+        return items[0]
+
+    names = cover.input_names
+    terms: dict[tuple[int, int], tuple[str, int] | str] = {}
+    drivers = []
+    for j in range(cover.n_outputs):
+        items: list[tuple[str, int]] = []
+        one = False
+        for c in cover.cubes_for(j):
+            key = (c.care, c.value)
+            if key not in terms:
+                lits = [(names[i], c.value >> i & 1) for i in range(cover.n_inputs) if c.care >> i & 1]
+                terms[key] = tree(lits, "and") if lits else "1"
+            t = terms[key]
+            if t == "1":
+                one = True
+            else:
+                items.append(t)  # type: ignore[arg-type]
+        if one:
+            sig, pol = "1", 1
+        elif not items:
+            sig, pol = "0", 1
+        else:
+            sig, pol = tree(list(dict.fromkeys(items)), "or")
+        if cover.is_inverted(j):
+            pol = 1 - pol
+        if not pol:
+            sig = ("1" if sig == "0" else "0") if sig in ("0", "1") else new([(sig, 0)], "and")
+        drivers.append(sig)
+    net = LutNetwork(k, cover.input_names, cover.output_names, tuple(luts), tuple(drivers), {}, "two-level")
+    return tidy_network(net, "b")
+
+
+def machine() -> str:
+    cpu = ""
+    try:
+        with open("/proc/cpuinfo", encoding="utf-8") as fh:
+            for line in fh:
+                if line.startswith("model name"):
+                    cpu = line.split(":", 1)[1].strip()
+                    break
+    except OSError:
+        cpu = platform.processor()
+    arch = subprocess.run(["uname", "-m"], check=False, capture_output=True, text=True).stdout.strip()
+    arch = arch or platform.machine()
+    return f"machine: {arch}, {os.cpu_count()} cores (nproc), {cpu or 'unknown cpu'}; Python {platform.python_version()}"
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    names = list(argv) if argv else list(SUITE)
+    print("plaforge LUT mapping benchmark (python -m benchmarks.bench_luts)")
+    print(machine())
+    print("count/depth: LUTs and levels; lb: proven lower bounds; 2-level: straightforward mapping of the minimized")
+    print("cover; ratio: plaforge count / lower bound; every network re-checked against its table.")
+    print()
+    head = (f"{'function':<10} {'in':>3} {'out':>3} {'k':>2} | {'plaforge':>9} {'2-level':>9} {'lb':>7} | "
+            f"{'ratio':>5} {'seconds':>7}  method")
+    print(head)
+    print("-" * len(head))
+    results = {}
+    for name in names:
+        entry = SUITE[name]
+        table = entry()
+        cover = minimize(table)
+        for k in (4, 6):
+            t0 = time.perf_counter()
+            net = map_luts(table, k)
+            secs = time.perf_counter() - t0
+            base = two_level_luts(cover, k)
+            for n_ in (net, base):
+                verdict = check_network_any(table, n_)
+                if not verdict.passed:
+                    print(f"{name}: {n_.method} network FAILED its check", file=sys.stderr)
+                    return 1
+            lb = net.lower_bounds
+            ratio = net.count / lb["count"] if lb["count"] else float("nan")
+            results[(name, k)] = (net.count, lb["count"])
+            print(f"{name:<10} {table.n_inputs:>3} {table.n_outputs:>3} {k:>2} | "
+                  f"{net.count:>5}/{net.depth:<3} {base.count:>5}/{base.depth:<3} {lb['count']:>3}/{lb['depth']:<3} | "
+                  f"{ratio:>5.2f} {secs:>7.2f}  {net.method}", flush=True)
+    if ("add6", 6) in results:
+        c, b = results[("add6", 6)]
+        print()
+        print(f"aim: 6-bit adder, k = 6: {c} LUTs against a lower bound of {b} = {c / b:.2f}x "
+              f"({'meets' if c <= 1.5 * b else 'misses'} the 1.5x aim)")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main(sys.argv[1:]))
