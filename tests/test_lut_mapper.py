@@ -155,3 +155,15 @@ def test_bad_arguments():
         map_luts("t.pla")  # type: ignore[arg-type]
     with pytest.raises(ValueError, match="objective must be 'area' or 'depth'"):
         LutOptions(objective="speed")  # type: ignore[arg-type]
+
+
+def test_lut_budget_falls_back_to_cuts_on_the_cover():
+    # a seeded random 8-input function: decomposition needs more than 3 LUTs, so with a budget of 3 the output is
+    # rolled back and mapped by cuts on the cover; both networks must match the table (reference: the array)
+    rnd = np.random.default_rng(5)
+    vals = rnd.random(256) < 0.5
+    t = Table.from_function([f"x{i}" for i in range(8)], ["y", "z"], lambda p: [vals[p], (p & 3) == 3])
+    small = map_luts(t, k=4, options=LutOptions(lut_budget=3))
+    assert "cover cuts" in small.method
+    for p in range(256):
+        assert small.evaluate(p) == int(vals[p]) | int(p & 3 == 3) << 1

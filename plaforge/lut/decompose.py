@@ -104,6 +104,10 @@ def local_function(arrays: Sequence[np.ndarray], on: np.ndarray, off: np.ndarray
     return on_l, off_l
 
 
+class OverBudget(Exception):
+    """Decomposing one output needed more LUTs than allowed (the caller falls back to another method)."""
+
+
 @dataclass
 class Node:
     """A LUT under construction: fan-ins, INIT and (when small enough) its global function."""
@@ -139,6 +143,7 @@ class NetworkBuilder:
     by_name: dict[str, Node] = field(default_factory=dict)
     by_struct: dict[tuple[tuple[str, ...], int], str] = field(default_factory=dict)
     index: dict[str, int] = field(default_factory=dict)
+    budget_end: int | None = None
     _universes: dict[tuple[int, ...], Universe] = field(default_factory=dict)
 
     def __post_init__(self) -> None:
@@ -194,11 +199,25 @@ class NetworkBuilder:
                 u.by_function.setdefault(np.packbits(arr).tobytes(), node.name)
         return u.by_function
 
+    def rollback(self, count: int) -> None:
+        """Forget every LUT built after the first ``count`` (and every cached array of them)."""
+        for node in self.nodes[count:]:
+            del self.by_name[node.name]
+            del self.by_struct[(node.inputs, node.init)]
+            for u in self._universes.values():
+                u.cache.pop(node.name, None)
+        del self.nodes[count:]
+        for u in self._universes.values():
+            u.by_function.clear()
+            u.indexed = 0
+
     def add_lut(self, inputs: tuple[str, ...], init: int) -> str:
         """The LUT with these fan-ins and INIT (an existing one when structurally equal)."""
         key = (inputs, init)
         if key in self.by_struct:
             return self.by_struct[key]
+        if self.budget_end is not None and len(self.nodes) >= self.budget_end:
+            raise OverBudget("more than the LUT budget for one output")
         name = f"{self.prefix}{len(self.nodes)}"
         supports = [self.support(s) for s in inputs]
         truth: np.ndarray | None = None

@@ -41,7 +41,7 @@ import numpy as np
 from ..cube import Cover, Cube
 from ..errors import CheckFailed
 from ..table import DEFAULT_ENUM_LIMIT, Table, cubes_bits, unpack_bits
-from .decompose import Decomposer, NetworkBuilder, Pending
+from .decompose import Decomposer, NetworkBuilder, OverBudget, Pending
 from .network import Lut, LutNetwork
 from .options import LutOptions
 
@@ -340,9 +340,20 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
         dec.pending = [Pending(builder.universe(s2), a, b) for _, s2, a, b in groups[x + 1:]]
         u = builder.universe(sup)
         sigs = [table.input_names[i] for i in u.inputs]
-        signal = dec.realize(u, sigs, on, off)
+        before = len(builder.nodes)
+        builder.budget_end = before + opts.lut_budget if opts.lut_budget else None
+        try:
+            signal = dec.realize(u, sigs, on, off)
+        except OverBudget:
+            # too irregular to decompose within the budget: the cover and cuts take these outputs
+            builder.rollback(before)
+            wide.extend(outs)
+            continue
+        finally:
+            builder.budget_end = None
         for j in outs:
             drivers[j] = signal
+    wide.sort()
     luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
     method = "decomposition" if narrow else ""
     net = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {}, method)

@@ -20,6 +20,9 @@ class LutOptions:
         Outputs whose support has at most this many inputs are decomposed functionally on their truth table
         (2**support points); wider outputs are mapped by cuts on a multi-level subject graph built from a
         two-level cover.
+    lut_budget : int
+        Most LUTs the decomposition may build for one output (group); past it that output is rolled back and
+        mapped by cuts on the cover instead (0: no budget). Keeps irregular wide functions from running long.
     bound_set_budget : int
         Bound sets scored per decomposition step when every subset of up to k variables is tried; above it a beam
         search grows bound sets one variable at a time.
@@ -42,7 +45,8 @@ class LutOptions:
         Enumeration limit for that check.
     """
 
-    decompose_limit: int = 16
+    decompose_limit: int = 20
+    lut_budget: int = 2000
     bound_set_budget: int = 1500
     beam: int = 8
     objective: Literal["area", "depth"] = "area"
@@ -52,7 +56,7 @@ class LutOptions:
     enum_limit: int = DEFAULT_ENUM_LIMIT
 
     def __post_init__(self) -> None:
-        for name in ("decompose_limit", "bound_set_budget", "beam", "cut_limit", "enum_limit"):
+        for name in ("decompose_limit", "lut_budget", "bound_set_budget", "beam", "cut_limit", "enum_limit"):
             value = getattr(self, name)
             if not isinstance(value, int) or isinstance(value, bool) or value < 0:
                 raise ValueError(f"LutOptions.{name} must be a non-negative int, not {value!r}")
