@@ -6,7 +6,10 @@ Encoding (per output ``j``, only the cone of LUTs feeding its driver)
 * each LUT ``y`` with fan-ins ``x_0 .. x_(m-1)`` and INIT ``I``: for every row ``p`` of ``2**m``, the clause
   ``(x != p) -> (y == I[p])``, i.e. ``OR_b (x_b != p_b)  OR  (y if I[p] else not y)`` (``2**m`` clauses of
   ``m + 1`` literals: the Tseitin encoding of a lookup table);
-* a set of cubes ``C`` as one selector per cube (``s_c -> every literal of c``) and ``OR_c s_c``.
+* an ON or OFF set from the cubes *as given* (no complement is ever computed): a given list ``C`` as one selector
+  per cube (``s_c -> every literal of c``) and ``OR_c s_c``; a set left implicit ("the rest") as "in none of the
+  other sets' cubes", one clause per cube (``OR`` of its negated literals); the given DC cubes are excluded the
+  same way.
 Two queries: "a point of ON where the output is 0" and "a point of OFF where the output is 1". Both unsatisfiable
 means ``ON ⊆ network ⊆ ON ∪ DC`` for that output (OFF is the complement of ON ∪ DC, so the DC points are free).
 A satisfying assignment is a counterexample point.
