@@ -98,10 +98,10 @@ def test_cover_figures_and_evaluation():
     assert cov.rows == 7 and cov.literals == 18
     assert cov.terms() == {"s": 4, "co": 3}
     for p in range(8):
-        ones = bin(p).count("1")
+        ones = p.bit_count()
         assert cov.evaluate(p) == (ones & 1) | ((ones >= 2) << 1)
     inv = cov.with_(inverted=0b10)
-    assert all(inv.evaluate(p) >> 1 & 1 == (bin(p).count("1") < 2) for p in range(8))
+    assert all(inv.evaluate(p) >> 1 & 1 == (p.bit_count() < 2) for p in range(8))
 
 
 def test_points_enumeration_matches_definition():

@@ -136,10 +136,11 @@ class _Cnf:
         sol = picosat.satisfy_one(max(self.top, 1), clauses)
         if sol is None:
             return None
+        # pyeda's PicoSAT answers one value per variable, -1 (false) or 1 (true), in variable order
         point = 0
-        for lit in sol:
-            if 0 < lit <= self.n:
-                point |= 1 << (lit - 1)
+        for i in range(self.n):
+            if sol[i] > 0:
+                point |= 1 << i
         return point
 
 

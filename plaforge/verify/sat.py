@@ -126,34 +126,17 @@ def sat_check_cover(table: Table, cover: Cover, artifact: str = "cover") -> Verd
 
 
 def sat_check_network(table: Table, net: LutNetwork, artifact: str = "LUT network") -> Verdict:
-    """Prove a LUT network against ``table`` output by output (Tseitin encoding; see the module docs)."""
+    """Prove a LUT network against ``table`` output by output (Tseitin encoding; see the module docs).
+
+    The encoding lives with the LUT mapper (:func:`plaforge.lut.verify_sat.check_network_sat`, which also serves
+    the mapper's own SAT queries): it encodes only the cone of LUTs feeding each output and the ON/OFF sets as the
+    spec gave them, so no set is ever complemented. This wrapper labels the verdict like every other SAT proof.
+    """
+    from ..lut.verify_sat import check_network_sat  # lazy: plaforge.lut imports plaforge.verify
+
     _names(table, net.input_names, net.output_names, artifact)
-    base = _Cnf(table.n_inputs)
-    var: dict[str, int] = {name: i + 1 for i, name in enumerate(net.input_names)}
-    const = base.new_var()
-    base.clauses.append((-const,))
-    var["0"], var["1"] = const, -const
-    for lut in net.luts:
-        v = base.new_var()
-        fan = [var[x] for x in lut.inputs]
-        for pattern in range(1 << len(fan)):
-            clause = [(-f if pattern >> b & 1 else f) for b, f in enumerate(fan)]
-            clause.append(v if lut.init >> pattern & 1 else -v)
-            base.clauses.append(tuple(clause))
-        var[lut.name] = v
-    res = []
-    for j, name in enumerate(table.output_names):
-        y = var[net.drivers[j]]
-        failure = None
-        on, dc = table.on_cubes(j), table.dc_cubes(j)
-        for expected in (1, 0):
-            cnf = _Cnf(table.n_inputs)
-            cnf.nvars, cnf.clauses = base.nvars, list(base.clauses)
-            clauses = cnf.in_union(on) if expected == 1 else cnf.outside_union(on) + cnf.outside_union(dc)
-            clauses.append((-y,) if expected == 1 else (y,))
-            p = cnf.solve(clauses)
-            if p is not None:
-                failure = (p, expected, 1 - expected)
-                break
-        res.append(OutputVerdict(name, failure is None, 0, SAT_METHOD, failure))
-    return Verdict(artifact, tuple(res))
+    verdict = check_network_sat(table, net, artifact)
+    return Verdict(
+        artifact,
+        tuple(OutputVerdict(o.name, o.passed, o.vectors, SAT_METHOD, o.failure) for o in verdict.outputs),
+    )
