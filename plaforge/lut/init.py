@@ -124,8 +124,13 @@ def permute_init(init: int, n_inputs: int, order: Sequence[int]) -> int:
     _check_width(init, n_inputs)
     if sorted(order) != list(range(n_inputs)):
         raise ValueError(f"order {list(order)!r} is not a permutation of range({n_inputs})")
+    return _select(init, order)
+
+
+def _select(init: int, order: Sequence[int]) -> int:
+    """INIT over the fan-ins ``order`` (new fan-in ``b`` is old fan-in ``order[b]``; old fan-ins left out are 0)."""
     out = 0
-    for q in range(1 << n_inputs):
+    for q in range(1 << len(order)):
         p = 0
         for b, old in enumerate(order):
             if q >> b & 1:
@@ -152,12 +157,4 @@ def drop_unused_inputs(init: int, n_inputs: int) -> tuple[int, tuple[int, ...]]:
         The reduced INIT and the kept old fan-in positions in order.
     """
     keep = tuple(b for b in range(n_inputs) if depends_on(init, n_inputs, b))
-    out = 0
-    for q in range(1 << len(keep)):
-        p = 0
-        for nb, old in enumerate(keep):
-            if q >> nb & 1:
-                p |= 1 << old
-        if init >> p & 1:
-            out |= 1 << q
-    return out, keep
+    return _select(init, keep), keep
