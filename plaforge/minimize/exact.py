@@ -55,7 +55,7 @@ import numpy as np
 from ..cube import Cover, Cube
 from ..errors import SolverFailure, TooWide
 from ..table import Table, _valid_mask, unpack_bits
-from .heuristic import FunctionSets, espresso_cubes, merge_identical, sort_cubes, table_sets, verify_cover
+from .heuristic import FunctionSets, cover_cubes, merge_identical, sort_cubes, table_sets, verify_cover
 from .options import MinimizeOptions
 from .progress import Progress
 
@@ -578,7 +578,7 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int = 0) ->
     per_output = options.cost == "per-output"
     # The heuristic cover only seeds the solver (and is the fallback): a third of the budget, and none at all is fine.
     try:
-        heur: list[Cube] | None = espresso_cubes(
+        heur: list[Cube] | None = cover_cubes(
             fs, per_output, replace(options, time_limit=max(0.5, options.time_limit / 3)))
     except SolverFailure:
         heur = None

@@ -46,11 +46,11 @@ from ..table import DEFAULT_ENUM_LIMIT, Table
 from .options import MinimizeOptions
 
 __all__ = [
-    "ESPRESSO_DEFAULTS",
+    "MINIMIZER_DEFAULTS",
     "FunctionSets",
+    "cover_cubes",
     "decode_row",
     "encode_cube",
-    "espresso_cubes",
     "heuristic_cubes",
     "merge_identical",
     "minimize_heuristic",
@@ -63,7 +63,7 @@ __all__ = [
 SIGNATURE_LIMIT = 16
 
 #: pyeda's own defaults for the compiled minimizer's global switches (restored before every call).
-ESPRESSO_DEFAULTS: MappingProxyType[str, bool] = MappingProxyType({
+MINIMIZER_DEFAULTS: MappingProxyType[str, bool] = MappingProxyType({
     "single_expand": False,
     "remove_essential": True,
     "force_irredundant": True,
@@ -188,7 +188,7 @@ def _rows(n: int, m: int, on: Sequence[Sequence[Cube]], dc: Sequence[Sequence[Cu
     return rows
 
 
-def _espresso_jobs(jobs: list[tuple[int, int, set[tuple], bool]]) -> list[list[tuple]]:
+def _minimizer_jobs(jobs: list[tuple[int, int, set[tuple], bool]]) -> list[list[tuple]]:
     """Run the compiled minimizer on each job ``(n, m, rows, has_dc)``; results as sorted row lists.
 
     Each job is minimized, then (up to :data:`SIGNATURE_LIMIT` inputs, where it is cheap) its result is fed back
@@ -203,13 +203,13 @@ def _espresso_jobs(jobs: list[tuple[int, int, set[tuple], bool]]) -> list[list[t
             out.append([])
             continue
         kind = FTYPE | DTYPE if has_dc else FTYPE
-        set_config(**ESPRESSO_DEFAULTS)
+        set_config(**MINIMIZER_DEFAULTS)
         first = sorted(espresso(n, m, rows, intype=kind))
         if n > SIGNATURE_LIMIT:
             out.append(first)
             continue
         dc_rows = {(inp, tuple(2 if v == 2 else 0 for v in outp)) for inp, outp in rows if 2 in outp}
-        set_config(**ESPRESSO_DEFAULTS)
+        set_config(**MINIMIZER_DEFAULTS)
         second = sorted(espresso(n, m, set(first) | dc_rows, intype=kind))
         out.append(second if _row_cost(second) < _row_cost(first) else first)
     return out
@@ -302,7 +302,7 @@ def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str)
     return payload
 
 
-def espresso_cubes(fs: FunctionSets, per_output: bool, options: MinimizeOptions) -> list[Cube]:
+def cover_cubes(fs: FunctionSets, per_output: bool, options: MinimizeOptions) -> list[Cube]:
     """Minimized cubes for ``fs``: jointly (shared terms) or each output alone, identical terms merged."""
     n, m = fs.n, fs.m
     jobs: list[tuple[int, int, set[tuple], bool]] = []
@@ -317,9 +317,9 @@ def espresso_cubes(fs: FunctionSets, per_output: bool, options: MinimizeOptions)
         if sig is not None:
             jobs.append((n, m, sig, any(fs.dc)))
     if options.isolate:
-        results = run_isolated(_espresso_jobs, (jobs,), options.time_limit, "the heuristic minimizer")
+        results = run_isolated(_minimizer_jobs, (jobs,), options.time_limit, "the heuristic minimizer")
     else:
-        results = _espresso_jobs(jobs)
+        results = _minimizer_jobs(jobs)
     if not per_output:
         results = [min(results, key=_row_cost)]
     cubes: list[Cube] = []
@@ -334,8 +334,8 @@ def espresso_cubes(fs: FunctionSets, per_output: bool, options: MinimizeOptions)
 
 
 def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
-    """Alias of :func:`espresso_cubes` taking the cost model from ``options``."""
-    return espresso_cubes(fs, options.cost == "per-output", options)
+    """Alias of :func:`cover_cubes` taking the cost model from ``options``."""
+    return cover_cubes(fs, options.cost == "per-output", options)
 
 
 def _cube_check(fs: FunctionSets, cubes: Sequence[Cube]) -> str | None:

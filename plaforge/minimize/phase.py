@@ -25,7 +25,7 @@ import time
 
 from ..cube import Cube
 from ..table import Table
-from .heuristic import FunctionSets, espresso_cubes, table_sets
+from .heuristic import FunctionSets, cover_cubes, table_sets
 from .options import MinimizeOptions
 
 __all__ = ["assign_phases", "phase_cost"]
@@ -61,11 +61,11 @@ def assign_phases(table: Table, options: MinimizeOptions) -> int:
     deadline = time.monotonic() + options.time_limit / 2
 
     def cost(inv: int) -> tuple[int, int]:
-        return phase_cost(espresso_cubes(table_sets(table, inv), per_output, options), per_output)
+        return phase_cost(cover_cubes(table_sets(table, inv), per_output, options), per_output)
 
     if per_output:
-        true_cubes = espresso_cubes(table_sets(table, 0), True, options)
-        comp_cubes = espresso_cubes(table_sets(table, (1 << m) - 1), True, options)
+        true_cubes = cover_cubes(table_sets(table, 0), True, options)
+        comp_cubes = cover_cubes(table_sets(table, (1 << m) - 1), True, options)
         inverted = 0
         for j in range(m):
             a = phase_cost([c for c in true_cubes if c.outputs >> j & 1], True)
@@ -78,7 +78,7 @@ def assign_phases(table: Table, options: MinimizeOptions) -> int:
     if m == 0:
         return 0
     # steps 1-2: choose on the double-phase cover
-    double = espresso_cubes(_double_phase(table), False, options)
+    double = cover_cubes(_double_phase(table), False, options)
     inv, est = 0, _estimate(double, m, 0)
     while True:
         trials = [(_estimate(double, m, inv ^ (1 << j)), j) for j in range(m)]
