@@ -44,11 +44,6 @@ def main(argv: list[str] | None = None) -> None:
     cli.main(args=argv, prog_name="plaforge")
 
 
-def not_built(what: str) -> None:
-    """Say plainly that a capability has not landed yet (exit 2)."""
-    raise PlaforgeError(f"{what} is not built yet in this version of plaforge")
-
-
 # Commands live one per module; importing registers them on the group.
 from . import commands as _commands  # noqa: F401
 
