@@ -26,7 +26,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Iterator, Sequence
 from dataclasses import dataclass, field, replace
 
-__all__ = ["Cover", "Cube", "complement", "cube_list_contains", "cubes_intersect", "drop_inputs", "sharp"]
+__all__ = ["Cover", "Cube", "SharpTooLarge", "complement", "cube_list_contains", "cubes_intersect", "drop_inputs", "sharp"]
 
 
 @dataclass(frozen=True, slots=True, order=True)
@@ -232,14 +232,21 @@ def _complement(cubes: list[Cube]) -> list[Cube]:
     return _absorb(out)
 
 
-def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int | None = None) -> list[Cube]:
+class SharpTooLarge(Exception):
+    """Raised by :func:`sharp` when the result would exceed its ``limit`` of cubes."""
+
+
+def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int | None = None, limit: int | None = None) -> list[Cube]:
     """Points of ``a`` not in any cube of ``b``, as cubes (feeding ``outputs``, or each ``a`` cube's own).
 
     Works cube by cube: only the cubes of ``b`` that touch ``x`` are cofactored by ``x`` and complemented, so the
-    cost follows local overlap, never the size of all of ``b`` or 2**n.
+    cost follows local overlap, never the size of all of ``b`` or 2**n. Heavily overlapping random cubes over many
+    inputs can still need very many pieces: past ``limit`` pieces it raises :class:`SharpTooLarge`.
     """
     out: list[Cube] = []
     for x in a:
+        if limit is not None and len(out) > limit:
+            raise SharpTooLarge(f"more than {limit} cubes")
         outs = x.outputs if outputs is None else outputs
         touching = [y for y in b if y.intersects(x)]
         if not touching:

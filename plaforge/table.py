@@ -25,7 +25,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .cube import Cube, complement, drop_inputs, sharp
+from .cube import Cube, SharpTooLarge, complement, drop_inputs, sharp
 from .errors import TooWide
 
 __all__ = [
@@ -194,7 +194,15 @@ class Table:
             # DC wins over ON/OFF where they overlap: trim to exclude DC points.
             dc = self.dc_cubes(j)
             if dc:
-                s = _sharp(s, dc)
+                try:
+                    s = _sharp(s, dc)
+                except SharpTooLarge:
+                    raise TooWide(
+                        f"{self.source or 'table'}: output {self.output_names[j]!r}: its "
+                        f"{'ON' if kind == 0 else 'OFF'} rows overlap its don't-care rows so much that separating "
+                        f"them needs more than {SHARP_LIMIT} cubes; give the don't-cares as rows of their own, "
+                        "not overlapping the others"
+                    ) from None
         bit = 1 << j
         res = tuple(c if c.outputs == bit else c.with_outputs(bit) for c in s)
         self._cache[key] = res
@@ -228,7 +236,13 @@ class Table:
         key = ("support", j)
         if key in self._cache:
             return self._cache[key]
-        on, off = self.on_cubes(j), self.off_cubes(j)
+        try:
+            on, off = self.on_cubes(j), self.off_cubes(j)
+        except TooWide:
+            # ON or OFF rows overlap the don't-cares too much to separate: use the rows as given. Points in both
+            # then count as ON (or OFF), so the support found may keep an input a don't-care would let go.
+            on = self.on[j] if self.on[j] is not None else self.on_cubes(j)
+            off = self.off[j] if self.off[j] is not None else self.off_cubes(j)
         used = 0
         for c in on + off:
             used |= c.care
@@ -312,9 +326,13 @@ def _lists_intersect(a: Sequence[Cube], b: Sequence[Cube]) -> bool:
     return False
 
 
+#: Most cubes a set trimmed by its don't-cares may take before the Table refuses (see ``Table._set``).
+SHARP_LIMIT = 200_000
+
+
 def _sharp(a: Sequence[Cube], b: Sequence[Cube]) -> tuple[Cube, ...]:
-    """Points of ``a`` not in ``b``, as cubes."""
-    return tuple(sharp(a, b))
+    """Points of ``a`` not in ``b``, as cubes (at most :data:`SHARP_LIMIT` of them)."""
+    return tuple(sharp(a, b, limit=SHARP_LIMIT))
 
 
 def bool_array_to_cubes(v: np.ndarray, n: int, outputs: int = 1) -> list[Cube]:

@@ -105,3 +105,19 @@ def test_from_function_full_adder_matches_definition():
         ones = p.bit_count()
         assert t.evaluate(p) == ((ones & 1) | ((ones >= 2) << 1), 0)
     assert len(t.on_cubes(0)) == 4  # parity has no merges
+
+
+def test_overlap_too_large_to_separate_is_a_clear_error(monkeypatch):
+    import pytest
+
+    import plaforge.table as table_mod
+    from plaforge.errors import TooWide
+
+    monkeypatch.setattr(table_mod, "SHARP_LIMIT", 4)
+    n = 8
+    dc = tuple(Cube.point(p, n) for p in (3, 77, 140, 201, 250, 9))
+    t = Table(tuple(f"x{i}" for i in range(n)), ("y",), ((Cube(0b1, 0b1),),), (dc,), (None,), source="t.pla")
+    with pytest.raises(TooWide, match="t.pla: output 'y': its ON rows overlap its don't-care rows"):
+        t.on_cubes(0)
+    # support falls back to the rows as given: y = x0 still depends on x0 only
+    assert t.support_names(0) == ["x0"]
