@@ -245,8 +245,6 @@ def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int | None = None, limi
     """
     out: list[Cube] = []
     for x in a:
-        if limit is not None and len(out) > limit:
-            raise SharpTooLarge(f"more than {limit} cubes")
         outs = x.outputs if outputs is None else outputs
         touching = [y for y in b if y.intersects(x)]
         if not touching:
@@ -255,6 +253,8 @@ def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int | None = None, limi
         cof = [Cube(y.care & ~x.care, y.value & ~x.care) for y in touching]
         for z in _complement(cof):
             out.append(Cube(z.care | x.care, z.value | x.value, outs))
+        if limit is not None and len(out) > limit:
+            raise SharpTooLarge(f"more than {limit} cubes")
     return list(dict.fromkeys(out))
 
 
