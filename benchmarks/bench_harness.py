@@ -13,9 +13,7 @@ second (simulation only; elaboration and expected-value set-up are timed apart).
 from __future__ import annotations
 
 import argparse
-import platform
 import random
-import subprocess
 import sys
 import time
 from pathlib import Path
@@ -24,7 +22,7 @@ ROOT = Path(__file__).resolve().parent.parent
 if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
-from benchmarks.suite import SUITE
+from benchmarks.suite import SUITE, machine
 from plaforge.cube import Cover, Cube
 from plaforge.emit.amaranth import build_component
 from plaforge.lut import map_luts
@@ -35,24 +33,11 @@ from plaforge.verify.sat import sat_check_cover
 from plaforge.verify.simulate import simulate_points
 
 
-def machine() -> str:
-    cpu = "unknown cpu"
-    try:
-        for line in Path("/proc/cpuinfo").read_text().splitlines():
-            if line.startswith("model name"):
-                cpu = line.split(":", 1)[1].strip()
-                break
-    except OSError:
-        pass
-    try:
-        nproc = subprocess.run(["nproc"], capture_output=True, text=True, check=False).stdout.strip()
-    except OSError:
-        nproc = "?"
+def machine_line() -> str:
     import amaranth
     import numpy
 
-    return (f"machine: {platform.machine()}, {nproc} cores, {cpu}; Python {platform.python_version()}, "
-            f"amaranth {amaranth.__version__}, numpy {numpy.__version__}")
+    return f"machine: {machine()}, amaranth {amaranth.__version__}, numpy {numpy.__version__}"
 
 
 def bench_simulation(names: list[str]) -> list[str]:
@@ -132,7 +117,7 @@ def main() -> None:
     args = ap.parse_args()
     lines = [
         "plaforge check throughput (python benchmarks/bench_harness.py)",
-        machine(),
+        machine_line(),
         "",
         "Amaranth simulator, one Cat() set and one Cat() get per vector; nodes = product terms (sop) or LUTs (lut);",
         "setup = elaboration + simulator construction + 1 vector; sim s excludes setup:",

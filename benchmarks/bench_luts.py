@@ -13,9 +13,6 @@ its table (exhaustive, or SAT for the wide entry) before its figures are printed
 
 from __future__ import annotations
 
-import os
-import platform
-import subprocess
 import sys
 import time
 from collections.abc import Sequence
@@ -26,7 +23,7 @@ from plaforge.lut.mapper import tidy_network
 from plaforge.lut.network import Lut
 from plaforge.minimize import minimize
 
-from .suite import SUITE
+from .suite import SUITE, machine
 
 
 def two_level_luts(cover: Cover, k: int) -> LutNetwork:
@@ -82,25 +79,10 @@ def two_level_luts(cover: Cover, k: int) -> LutNetwork:
     return tidy_network(net, "b")
 
 
-def machine() -> str:
-    cpu = ""
-    try:
-        with open("/proc/cpuinfo", encoding="utf-8") as fh:
-            for line in fh:
-                if line.startswith("model name"):
-                    cpu = line.split(":", 1)[1].strip()
-                    break
-    except OSError:
-        cpu = platform.processor()
-    arch = subprocess.run(["uname", "-m"], check=False, capture_output=True, text=True).stdout.strip()
-    arch = arch or platform.machine()
-    return f"machine: {arch}, {os.cpu_count()} cores (nproc), {cpu or 'unknown cpu'}; Python {platform.python_version()}"
-
-
 def main(argv: Sequence[str] | None = None) -> int:
     names = list(argv) if argv else list(SUITE)
     print("plaforge LUT mapping benchmark (python -m benchmarks.bench_luts)")
-    print(machine())
+    print(f"machine: {machine()}")
     print("count/depth: LUTs and levels; lb: proven lower bounds; 2-level: straightforward mapping of the minimized")
     print("cover; ratio: plaforge count / lower bound; every network re-checked against its table.")
     print()

@@ -22,13 +22,11 @@ quoted in ``docs/bench_minimize.txt`` come from this script. Exit status 1 if a 
 from __future__ import annotations
 
 import argparse
-import os
-import platform
 import sys
 import time
 from dataclasses import dataclass
 
-from benchmarks.suite import SUITE
+from benchmarks.suite import SUITE, machine
 from plaforge.cube import Cover, Cube
 from plaforge.errors import SolverFailure
 from plaforge.minimize import MinimizeOptions, minimize
@@ -45,19 +43,6 @@ class Figure:
     seconds: float
     status: str = ""
     checked: bool = False
-
-
-def _machine() -> str:
-    cpu = "unknown CPU"
-    try:
-        with open("/proc/cpuinfo", encoding="utf-8") as fh:
-            for line in fh:
-                if line.startswith("model name"):
-                    cpu = line.split(":", 1)[1].strip()
-                    break
-    except OSError:
-        pass
-    return f"{platform.machine()}, {os.cpu_count()} CPUs ({cpu}), Python {platform.python_version()}"
 
 
 def _checked(table: Table, cover: Cover) -> bool:
@@ -138,7 +123,7 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--exact-max-inputs", type=int, default=12, help="run the exact path up to this many inputs")
     args = ap.parse_args(argv)
     names = args.names or list(SUITE)
-    print(f"machine: {_machine()}")
+    print(f"machine: {machine()}")
     print(f"exact path: CP-SAT, time limit {args.time_limit:g} s per function, up to {args.exact_max_inputs} inputs")
     head = (f"{'function':<11}{'in':>3}{'out':>4} | {'ref rows':>8}{'lits':>7}{'s':>7} | {'heur rows':>9}{'lits':>7}"
             f"{'s':>7} | {'exact rows':>10}{'lits':>7}{'s':>7}  {'status':<18} | {'heur/ref':>8}{'exact/ref':>10}")

@@ -279,3 +279,20 @@ def suite_names(max_inputs: int | None = None, wide: bool | None = None) -> list
         k for k, e in SUITE.items()
         if (max_inputs is None or e.inputs <= max_inputs) and (wide is None or e.wide == wide)
     ]
+
+
+def machine() -> str:
+    """One line naming the machine for benchmark printouts: architecture, CPU count and model, Python."""
+    import os
+    import platform
+
+    cpu = "unknown CPU"
+    try:
+        with open("/proc/cpuinfo", encoding="utf-8") as fh:
+            for line in fh:
+                if line.startswith("model name"):
+                    cpu = line.split(":", 1)[1].strip()
+                    break
+    except OSError:
+        pass
+    return f"{platform.machine()}, {os.cpu_count()} CPUs ({cpu}), Python {platform.python_version()}"
