@@ -24,7 +24,7 @@ from ..table import DEFAULT_ENUM_LIMIT, Table
 from ..verify.equivalence import OutputVerdict, Verdict, _names_match, check_network
 from .network import LutNetwork
 
-__all__ = ["check_network_any", "check_network_sat", "region", "sat_point"]
+__all__ = ["PointCnf", "check_network_any", "check_network_sat", "region", "sat_point"]
 
 
 def _cone_clauses(net: LutNetwork, driver: str, var: dict[str, int]) -> tuple[list[tuple[int, ...]], int]:
@@ -90,7 +90,7 @@ def region(table: Table, j: int, kind: str) -> Region:
     return [("out", tuple(other or ()) + tuple(dc or ()))]
 
 
-class _Cnf:
+class PointCnf:
     """A growing CNF over point variables ``1..n`` (input ``i`` is variable ``i + 1``) plus fresh variables."""
 
     def __init__(self, n: int) -> None:
@@ -147,7 +147,7 @@ class _Cnf:
 def sat_point(table: Table, parts: Sequence[tuple[int, str, int]], extra: Sequence[tuple[int, ...]] = ()) -> int | None:
     """A point ``p`` such that for each ``(j, kind, flip)`` the point ``p ^ flip`` is in output ``j``'s ``kind``
     set (``"on"``/``"off"``), or ``None`` when there is none. ``extra`` adds raw clauses over point variables."""
-    cnf = _Cnf(table.n_inputs)
+    cnf = PointCnf(table.n_inputs)
     for j, kind, flip in parts:
         cnf.constrain(region(table, j, kind), flip)
     return cnf.solve(extra)
@@ -169,7 +169,7 @@ def check_network_sat(table: Table, net: LutNetwork, artifact: str = "LUT networ
         driver = net.drivers[j]
         failure = None
         for want, kind in ((1, "on"), (0, "off")):
-            cnf = _Cnf(n)
+            cnf = PointCnf(n)
             var = {nm: i + 1 for i, nm in enumerate(table.input_names)}
             if driver in ("0", "1"):
                 if int(driver) == want:
