@@ -23,11 +23,11 @@ if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
 from benchmarks.suite import SUITE, machine
-from plaforge.cube import Cover, Cube
+from plaforge.core.cube import Cover, Cube
 from plaforge.emit.amaranth import build_component
 from plaforge.lut import map_luts
 from plaforge.minimize import minimize
-from plaforge.table import Table
+from plaforge.core.table import Table
 from plaforge.verify.equivalence import check_cover
 from plaforge.verify.sat import sat_check_cover
 from plaforge.verify.simulate import simulate_points

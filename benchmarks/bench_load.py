@@ -21,7 +21,7 @@ sys.path.insert(0, str(ROOT))  # run from a checkout without installing
 
 from plaforge.formats import read_spec
 from plaforge.formats.pla import parse_pla
-from plaforge.table import Table
+from plaforge.core.table import Table
 
 
 def random_pla(n: int, m: int, rows: int, typ: str, seed: int = 1) -> str:

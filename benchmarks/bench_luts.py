@@ -17,10 +17,10 @@ import sys
 import time
 from collections.abc import Sequence
 
-from plaforge.cube import Cover
+from plaforge.core.cube import Cover
 from plaforge.lut import LutNetwork, check_network_any, map_luts
 from plaforge.lut.mapper import tidy_network
-from plaforge.lut.network import Lut
+from plaforge.core.network import Lut
 from plaforge.minimize import minimize
 
 from .suite import SUITE, machine

@@ -27,11 +27,11 @@ import time
 from dataclasses import dataclass
 
 from benchmarks.suite import SUITE, machine
-from plaforge.cube import Cover, Cube
-from plaforge.errors import SolverFailure
+from plaforge.core.cube import Cover, Cube
+from plaforge.core.errors import SolverFailure
 from plaforge.minimize import MinimizeOptions, minimize
 from plaforge.minimize.heuristic import verify_cover
-from plaforge.table import Table, unpack_bits
+from plaforge.core.table import Table, unpack_bits
 
 ENUM_REFERENCE_LIMIT = 16
 

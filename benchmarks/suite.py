@@ -1,6 +1,6 @@
 """Benchmark suite: multi-output functions built from their arithmetic or combinatorial definitions.
 
-Every entry of :data:`SUITE` is a :class:`SuiteEntry`; calling it builds a fresh :class:`plaforge.table.Table`.
+Every entry of :data:`SUITE` is a :class:`SuiteEntry`; calling it builds a fresh :class:`plaforge.core.table.Table`.
 Enumerated entries evaluate their definition on every point at once with numpy (``Table.from_function``: the
 argument is ``numpy.arange(2**n)``, point bit ``i`` is input ``i``); the ``wide`` entries are specified directly as
 cubes (no enumeration, e.g. 40 inputs). Names follow the bus convention ``a[0]`` (LSB) ... so emitters can group
@@ -19,8 +19,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from plaforge.cube import Cube
-from plaforge.table import Table
+from plaforge.core.cube import Cube
+from plaforge.core.table import Table
 
 __all__ = ["SUITE", "SuiteEntry", "suite_names"]
 

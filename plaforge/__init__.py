@@ -1,8 +1,6 @@
 """plaforge: truth tables to jointly minimized PLA covers, k-LUT networks and Amaranth modules, with proof."""
 
-from .cube import Cover, Cube
-from .errors import CheckFailed, PlaforgeError, SpecError, TooWide
-from .table import DEFAULT_ENUM_LIMIT, Bus, Table
+from .core import DEFAULT_ENUM_LIMIT, Bus, CheckFailed, Cover, Cube, PlaforgeError, SpecError, Table, TooWide
 
 __all__ = ["DEFAULT_ENUM_LIMIT", "Bus", "CheckFailed", "Cover", "Cube", "PlaforgeError", "SpecError", "Table", "TooWide"]
 __version__ = "0.1.0"

@@ -12,10 +12,10 @@ import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from .cube import Cover
-from .fileio import write_text_atomic
-from .lut.network import LutNetwork
-from .table import Table
+from .core.cube import Cover
+from .core.fileio import write_text_atomic
+from .core.network import LutNetwork
+from .core.table import Table
 
 __all__ = ["BuildOptions", "BuildResult", "build"]
 
@@ -114,7 +114,7 @@ def build(
     from .formats.pla import write_pla
     from .lut import map_luts
     from .minimize import MinimizeOptions, minimize
-    from .verify.harness import check_artifact
+    from .checking import check_artifact
 
     opts = options or BuildOptions()
     out = Path(out_dir)

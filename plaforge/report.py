@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from .table import Table
+from .core.table import Table
 
 __all__ = ["CAUTION", "table_summary"]
 
@@ -32,7 +32,7 @@ def table_summary(table: Table) -> str:
         sup = table.support_names(j)
         extra = ""
         if enumerable:
-            from .table import popcount_bits
+            from .core.table import popcount_bits
 
             on_b, dc_b = table.truth(j)
             n_on, n_dc = popcount_bits(on_b), popcount_bits(dc_b)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from .errors import PlaforgeError
+from .core.errors import PlaforgeError
 
 __all__ = ["SAMPLES_DIR", "sample_path"]
 

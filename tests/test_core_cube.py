@@ -8,7 +8,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from plaforge.cube import Cover, Cube, complement, cube_list_contains
+from plaforge.core.cube import Cover, Cube, complement, cube_list_contains
 
 
 def cubes_strategy(n: int, max_cubes: int = 6):

@@ -13,7 +13,7 @@ from sympy import symbols
 from sympy.logic import SOPform
 
 from plaforge import Cube, Table
-from plaforge.table import bool_array_to_cubes, cubes_bits, pack_bool, point_bits, popcount_bits, unpack_bits
+from plaforge.core.table import bool_array_to_cubes, cubes_bits, pack_bool, point_bits, popcount_bits, unpack_bits
 
 
 def brute_sets(table: Table, j: int):
@@ -110,8 +110,8 @@ def test_from_function_full_adder_matches_definition():
 def test_overlap_too_large_to_separate_is_a_clear_error(monkeypatch):
     import pytest
 
-    import plaforge.table as table_mod
-    from plaforge.errors import TooWide
+    import plaforge.core.table as table_mod
+    from plaforge.core.errors import TooWide
 
     monkeypatch.setattr(table_mod, "SHARP_LIMIT", 4)
     n = 8

@@ -13,11 +13,11 @@ import sys
 import numpy as np
 import pytest
 
-from plaforge.cube import Cover, Cube
+from plaforge.core.cube import Cover, Cube
 from plaforge.emit.amaranth import build_component, class_name_for, module_source, port_name, ports_of
-from plaforge.errors import PlaforgeError
-from plaforge.lut.network import Lut, LutNetwork
-from plaforge.table import Table
+from plaforge.core.errors import PlaforgeError
+from plaforge.core.network import Lut, LutNetwork
+from plaforge.core.table import Table
 from plaforge.verify.simulate import check_component, component_class, load_module, simulate_points
 
 

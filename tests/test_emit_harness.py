@@ -15,10 +15,10 @@ from pathlib import Path
 
 import pytest
 
-from plaforge.cube import Cover, Cube
+from plaforge.core.cube import Cover, Cube
 from plaforge.emit.amaranth import module_source
 from plaforge.emit.harness import harness_source
-from plaforge.table import Table
+from plaforge.core.table import Table
 
 
 def _table() -> Table:

@@ -14,11 +14,11 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from plaforge.cube import Cover, Cube
+from plaforge.core.cube import Cover, Cube
 from plaforge.emit.amaranth import build_component, module_source, ports_of
 from plaforge.emit.verilog import verilog_name, verilog_source
-from plaforge.lut.network import Lut, LutNetwork
-from plaforge.table import Table, unpack_bits
+from plaforge.core.network import Lut, LutNetwork
+from plaforge.core.table import Table, unpack_bits
 
 HAVE_IVERILOG = shutil.which("iverilog") is not None and shutil.which("vvp") is not None
 needs_iverilog = pytest.mark.skipif(

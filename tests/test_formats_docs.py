@@ -8,7 +8,7 @@ from pathlib import Path
 from plaforge.formats.csv import parse_csv
 from plaforge.formats.pla import parse_pla
 from plaforge.formats.spec import parse_design
-from plaforge.table import Table
+from plaforge.core.table import Table
 
 DOC = Path(__file__).resolve().parent.parent / "docs" / "formats.md"
 

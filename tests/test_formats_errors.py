@@ -11,7 +11,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from plaforge.cli import cli
-from plaforge.errors import SpecError
+from plaforge.core.errors import SpecError
 from plaforge.formats.csv import parse_csv
 from plaforge.formats.pla import parse_cover, parse_pla
 from plaforge.formats.spec import parse_design

@@ -7,7 +7,7 @@ import json
 from click.testing import CliRunner
 
 from plaforge.cli import cli
-from plaforge.lut.network import LutNetwork
+from plaforge.core.network import LutNetwork
 
 # a 3-input spec: y = a AND b, z = 2:1 mux (c selects b over a), w = NOT a, v = b
 PLA = """\

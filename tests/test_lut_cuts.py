@@ -14,8 +14,8 @@ import pytest
 
 from plaforge.lut import LutOptions, map_luts
 from plaforge.lut.cuts import SubjectGraph, graph_from_network, map_subject, mapping_to_luts, min_depth_bruteforce
-from plaforge.lut.network import LutNetwork
-from plaforge.table import Table
+from plaforge.core.network import LutNetwork
+from plaforge.core.table import Table
 
 
 def _random_graph(rnd: random.Random, n_pis: int, gates: int) -> SubjectGraph:

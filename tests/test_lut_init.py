@@ -8,7 +8,7 @@ import pytest
 from plaforge.lut import LutNetwork, c_header, format_init, map_luts, pad_init
 from plaforge.lut.export import c_identifier, format_listing, padded_network
 from plaforge.lut.init import drop_unused_inputs, init_from_bits, permute_init
-from plaforge.table import Table
+from plaforge.core.table import Table
 
 
 def _bit(p: np.ndarray, i: int) -> np.ndarray:
@@ -144,7 +144,7 @@ def test_c_header_names_and_values():
 
 def test_c_header_wide_init_words():
     # a 7-input LUT of constant 1 pattern split in 64-bit words, least significant word first
-    from plaforge.lut.network import Lut
+    from plaforge.core.network import Lut
 
     lut = Lut("w", tuple(f"i{b}" for b in range(7)), (1 << 128) - 2)
     net = LutNetwork(7, tuple(f"i{b}" for b in range(7)), ("y",), (lut,), ("w",))

@@ -8,10 +8,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from plaforge.cube import Cube
+from plaforge.core.cube import Cube
 from plaforge.lut import LutOptions, check_network_any, check_network_sat, lower_bounds, map_luts
-from plaforge.lut.network import Lut, LutNetwork
-from plaforge.table import Table
+from plaforge.core.network import Lut, LutNetwork
+from plaforge.core.table import Table
 
 
 def _adder(w: int) -> Table:

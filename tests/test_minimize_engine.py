@@ -11,11 +11,11 @@ import pytest
 from click.testing import CliRunner
 
 from plaforge.cli import cli
-from plaforge.cube import Cover, Cube
-from plaforge.errors import SolverFailure, TooWide
+from plaforge.core.cube import Cover, Cube
+from plaforge.core.errors import SolverFailure, TooWide
 from plaforge.minimize import MinimizeOptions, cover_summary, minimize
 from plaforge.minimize.heuristic import decode_row, encode_cube, run_isolated, verify_cover
-from plaforge.table import Table
+from plaforge.core.table import Table
 
 CONTRACT_KEYS = ["inputs", "outputs", "rows", "terms", "literals", "method", "optimal", "lower_bound", "seconds"]
 

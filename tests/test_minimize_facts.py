@@ -5,9 +5,9 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from plaforge.cube import Cube
+from plaforge.core.cube import Cube
 from plaforge.minimize import MinimizeOptions, minimize
-from plaforge.table import Table
+from plaforge.core.table import Table
 from plaforge.verify.equivalence import check_cover
 
 EXACT = MinimizeOptions(exact=True, time_limit=30)
@@ -123,7 +123,7 @@ def test_exact_not_worse_than_heuristic_or_pyeda(seed: int) -> None:
     from pyeda.boolalg.minimization import espresso_tts
     from pyeda.boolalg.table import truthtable
 
-    from plaforge.table import unpack_bits
+    from plaforge.core.table import unpack_bits
 
     n, m = 5 + seed % 2, 3
     t = _random_table(n, m, seed)

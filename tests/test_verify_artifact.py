@@ -15,13 +15,13 @@ from click.testing import CliRunner
 from pyeda.inter import And, Or, exprvar
 
 from plaforge.cli import cli
-from plaforge.cube import Cover, Cube
+from plaforge.core.cube import Cover, Cube
 from plaforge.emit.amaranth import module_source
-from plaforge.errors import CheckFailed, PlaforgeError
+from plaforge.core.errors import CheckFailed, PlaforgeError
 from plaforge.formats.pla import write_pla, write_table_pla
-from plaforge.lut.network import Lut, LutNetwork
-from plaforge.table import Table
-from plaforge.verify.harness import check_artifact, prove
+from plaforge.core.network import Lut, LutNetwork
+from plaforge.core.table import Table
+from plaforge.checking import check_artifact, prove
 from plaforge.verify.report import format_vector, format_verdict
 from plaforge.verify.sat import sat_check_cover, sat_check_network
 

@@ -1,51 +1,10 @@
-"""Command line: thin click commands that parse, call the public API and print.
+"""Command line: one thin click module per command (parse, call the public API, print).
 
-Every user-caused error is a :class:`plaforge.errors.PlaforgeError`; it is printed here, in one place, as one line
-on stderr, and the process exits with its status (2 bad input or usage, 1 a failed check). No traceback reaches a
-user for bad input.
+Every user-caused error is a :class:`plaforge.core.errors.PlaforgeError`, printed in one place (:mod:`.group`) as
+one line on stderr with its exit status; see docs/conventions.md for the statuses.
 """
 
-from __future__ import annotations
-
-import sys
-from typing import Any
-
-import click
-
-from ..errors import PlaforgeError
+from . import commands as _commands  # noqa: F401  (importing registers every command on the group)
+from .group import cli, main
 
 __all__ = ["cli", "main"]
-
-
-class _Group(click.Group):
-    def invoke(self, ctx: click.Context) -> Any:
-        try:
-            return super().invoke(ctx)
-        except PlaforgeError as exc:
-            click.echo(f"plaforge: {exc}", err=True)
-            ctx.exit(exc.exit_code)
-        except KeyboardInterrupt:
-            click.echo("plaforge: interrupted", err=True)
-            ctx.exit(130)
-
-
-@click.group(cls=_Group, context_settings={"help_option_names": ["-h", "--help"]})
-@click.version_option(package_name="plaforge")
-def cli() -> None:
-    """Turn truth tables into minimized PLA covers, k-LUT INIT vectors and Amaranth modules, each checked
-    against the source table.
-
-    SPEC is a .pla, .csv or .toml file, chosen by its extension. Exit status: 0 success, 1 a check failed or a
-    result does not fit a budget, 2 bad input or usage.
-    """
-
-
-def main(argv: list[str] | None = None) -> None:
-    cli.main(args=argv, prog_name="plaforge")
-
-
-# Commands live one per module; importing registers them on the group.
-from . import commands as _commands  # noqa: F401
-
-if __name__ == "__main__":  # pragma: no cover
-    sys.exit(main())

@@ -6,11 +6,11 @@ import json
 
 import click
 
-from ..errors import CheckFailed
+from ..core.errors import CheckFailed
 from ..flow import BuildOptions, build
 from ..formats import read_spec
 from ..report import build_report
-from . import cli
+from .group import cli
 
 
 @cli.command("build")

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import click
 
-from ..errors import CheckFailed
-from . import cli
+from ..core.errors import CheckFailed
+from .group import cli
 
 
 @cli.command("check")
@@ -22,7 +22,7 @@ def check_cmd(spec: str, artifact: str, exhaustive_limit: int, samples: int, see
     Exit status 0 when every output passes, 1 when one fails, 2 on bad input.
     """
     from ..formats import read_spec
-    from ..verify.harness import check_artifact
+    from ..checking import check_artifact
     from ..verify.report import format_verdict
 
     table = read_spec(spec)

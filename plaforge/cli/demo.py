@@ -4,12 +4,12 @@ from __future__ import annotations
 
 import click
 
-from ..errors import CheckFailed
+from ..core.errors import CheckFailed
 from ..flow import BuildOptions, build
 from ..formats import read_spec
 from ..report import build_report, table_summary
 from ..samples import sample_path
-from . import cli
+from .group import cli
 
 DEMO_SAMPLE = "memory_map.toml"
 

@@ -6,7 +6,7 @@ import click
 
 from ..formats import read_spec
 from ..report import table_summary
-from . import cli
+from .group import cli
 
 
 @cli.command("inspect")

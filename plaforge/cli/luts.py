@@ -6,7 +6,7 @@ import json
 
 import click
 
-from . import cli
+from .group import cli
 
 
 @cli.command("luts")
@@ -29,7 +29,7 @@ def luts_cmd(spec: str, k: int, out: str | None, as_json: bool, init_format: str
     Every output is re-checked against SPEC (exhaustively, or with a SAT proof for wide tables) before anything
     is written.
     """
-    from ..fileio import write_text_atomic
+    from ..core.fileio import write_text_atomic
     from ..formats import read_spec
     from ..lut import LutOptions, c_header, format_listing, map_luts
     from ..lut.export import padded_network

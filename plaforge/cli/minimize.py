@@ -7,7 +7,7 @@ import sys
 
 import click
 
-from . import cli
+from .group import cli
 
 
 @cli.command("minimize")
@@ -23,7 +23,7 @@ from . import cli
 def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, cost: str, phase: bool,
                  as_json: bool) -> None:
     """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
-    from ..fileio import write_text_atomic
+    from ..core.fileio import write_text_atomic
     from ..formats import read_spec
     from ..formats.pla import write_pla
     from ..minimize import MinimizeOptions, cover_summary, format_summary, minimize

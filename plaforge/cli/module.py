@@ -7,8 +7,8 @@ from pathlib import Path
 
 import click
 
-from ..errors import PlaforgeError
-from . import cli
+from ..core.errors import PlaforgeError
+from .group import cli
 
 
 @cli.command("module")
@@ -25,7 +25,7 @@ from . import cli
 def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, harness: str | None) -> None:
     """Generate an Amaranth component implementing SPEC."""
     from ..emit.amaranth import module_source
-    from ..fileio import write_text_atomic
+    from ..core.fileio import write_text_atomic
     from ..formats import read_spec
 
     if harness is not None and out is None:

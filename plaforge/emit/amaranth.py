@@ -15,7 +15,7 @@ port name mapping (deterministic)
 styles
     ``sop`` (from a :class:`plaforge.cube.Cover`): each distinct product term once, as a named internal signal, each
     output the OR of its terms, complemented where the cover realizes the output inverted. ``lut`` (from a
-    :class:`plaforge.lut.network.LutNetwork`): each LUT a constant of ``2**k`` bits (its INIT) indexed by the
+    :class:`plaforge.core.network.LutNetwork`): each LUT a constant of ``2**k`` bits (its INIT) indexed by the
     concatenation of its fan-ins, the first fan-in as the least significant bit (the INIT convention).
 
 Two ways to the same logic: :func:`module_source` writes a stand-alone, human-readable Python file (formatted as
@@ -37,10 +37,10 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import Any
 
-from ..cube import Cover, Cube
-from ..errors import PlaforgeError
-from ..lut.network import Lut, LutNetwork, init_hex
-from ..table import Table
+from ..core.cube import Cover, Cube
+from ..core.errors import PlaforgeError
+from ..core.network import Lut, LutNetwork, init_hex
+from ..core.table import Table
 
 __all__ = [
     "LINE_LENGTH",

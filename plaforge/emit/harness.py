@@ -22,7 +22,7 @@ import zlib
 
 import numpy as np
 
-from ..table import Table, unpack_bits
+from ..core.table import Table, unpack_bits
 from .amaranth import _pystr, _seq_lines, ports_of
 
 __all__ = ["HARNESS_LIMIT", "harness_source"]

@@ -11,7 +11,7 @@ import re
 import types
 from typing import Any
 
-from ..errors import PlaforgeError
+from ..core.errors import PlaforgeError
 
 __all__ = ["verilog_name", "verilog_source"]
 

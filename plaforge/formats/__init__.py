@@ -9,8 +9,8 @@ from __future__ import annotations
 import os
 from pathlib import Path
 
-from ..errors import SpecError
-from ..table import Table
+from ..core.errors import SpecError
+from ..core.table import Table
 from ._files import read_text
 
 __all__ = ["READERS", "read_spec"]

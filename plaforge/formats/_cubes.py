@@ -18,8 +18,8 @@ from __future__ import annotations
 
 from collections.abc import Iterable, Sequence
 
-from ..cube import Cube
-from ..cube import sharp as _cube_sharp
+from ..core.cube import Cube
+from ..core.cube import sharp as _cube_sharp
 
 __all__ = [
     "and_lists",

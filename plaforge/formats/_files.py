@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import os
 
-from ..errors import SpecError
+from ..core.errors import SpecError
 
 __all__ = ["read_text"]
 

@@ -12,7 +12,7 @@ import tomllib
 from dataclasses import dataclass, field
 from typing import Any
 
-from ..errors import SpecError
+from ..core.errors import SpecError
 
 __all__ = ["Locator", "load_toml"]
 

@@ -40,9 +40,9 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from types import MappingProxyType
 
-from ..cube import Cube
-from ..errors import SpecError
-from ..table import Bus, Table
+from ..core.cube import Cube
+from ..core.errors import SpecError
+from ..core.table import Bus, Table
 from ._cubes import field_cube, find_overlap
 from ._files import read_text
 from .spec import MAX_WIDTH

@@ -45,9 +45,9 @@ import os
 import re
 from dataclasses import dataclass, field
 
-from ..cube import Cover, Cube
-from ..errors import SpecError
-from ..table import Table
+from ..core.cube import Cover, Cube
+from ..core.errors import SpecError
+from ..core.table import Table
 from ._cubes import find_overlap, sharp
 from ._files import read_text
 

@@ -66,9 +66,9 @@ from typing import Any
 
 import numpy as np
 
-from ..cube import Cube
-from ..errors import SpecError
-from ..table import DEFAULT_ENUM_LIMIT, Bus, Table, bool_array_to_cubes
+from ..core.cube import Cube
+from ..core.errors import SpecError
+from ..core.table import DEFAULT_ENUM_LIMIT, Bus, Table, bool_array_to_cubes
 from ._cubes import and_lists, field_cube, place, range_cubes, sharp
 from ._files import read_text
 from ._toml import Locator, load_toml

@@ -11,12 +11,12 @@ Public API
     header of constants.
 """
 
+from ..core.network import Lut, LutNetwork, init_hex
+from ..verify.satcnf import check_network_any, check_network_sat
 from .export import c_header, format_listing, net_init_constants
 from .init import INIT_STYLES, format_init, pad_init
 from .mapper import lower_bounds, map_luts
-from .network import Lut, LutNetwork, init_hex
 from .options import LutOptions
-from .verify_sat import check_network_any, check_network_sat
 
 __all__ = [
     "INIT_STYLES",

@@ -34,8 +34,8 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
-from ..cube import Cover
-from .network import Lut, LutNetwork
+from ..core.cube import Cover
+from ..core.network import Lut, LutNetwork
 from .options import LutOptions
 
 __all__ = [

@@ -8,7 +8,7 @@ from __future__ import annotations
 import re
 
 from .init import INIT_STYLES, drop_unused_inputs, format_init, pad_init
-from .network import Lut, LutNetwork
+from ..core.network import Lut, LutNetwork
 
 __all__ = ["GLITCH_NOTE", "c_header", "c_identifier", "describe_lut", "format_listing", "net_init_constants", "padded_network"]
 

@@ -38,11 +38,11 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..cube import Cover, Cube
-from ..errors import CheckFailed
-from ..table import DEFAULT_ENUM_LIMIT, Table, cubes_bits, unpack_bits
+from ..core.cube import Cover, Cube
+from ..core.errors import CheckFailed
+from ..core.table import DEFAULT_ENUM_LIMIT, Table, cubes_bits, unpack_bits
 from .decompose import Decomposer, NetworkBuilder, OverBudget, Pending
-from .network import Lut, LutNetwork
+from ..core.network import Lut, LutNetwork
 from .options import LutOptions
 
 __all__ = ["essential_inputs", "lower_bounds", "map_luts", "tidy_network"]
@@ -104,7 +104,7 @@ def _incompatible(table: Table, a: int, b: int) -> bool:
 
 
 def _essential_sat(table: Table, j: int) -> int:
-    from .verify_sat import sat_point
+    from ..verify.satcnf import sat_point
 
     mentioned = 0
     for sets in (table.on[j], table.dc[j], table.off[j]):
@@ -118,7 +118,7 @@ def _essential_sat(table: Table, j: int) -> int:
 
 
 def _trivial_sat(table: Table, j: int) -> bool:
-    from .verify_sat import sat_point
+    from ..verify.satcnf import sat_point
 
     if sat_point(table, [(j, "on", 0)]) is None or sat_point(table, [(j, "off", 0)]) is None:
         return True
@@ -130,7 +130,7 @@ def _trivial_sat(table: Table, j: int) -> bool:
 
 
 def _incompatible_sat(table: Table, a: int, b: int) -> bool:
-    from .verify_sat import sat_point
+    from ..verify.satcnf import sat_point
 
     return (sat_point(table, [(a, "on", 0), (b, "off", 0)]) is not None
             or sat_point(table, [(a, "off", 0), (b, "on", 0)]) is not None)
@@ -374,7 +374,7 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
     bounds = lower_bounds(table, k, opts.enum_limit)
     net = LutNetwork(net.k, net.input_names, net.output_names, net.luts, net.drivers, bounds, net.method)
     if opts.verify:
-        from .verify_sat import check_network_any
+        from ..verify.satcnf import check_network_any
 
         verdict = check_network_any(table, net, limit=opts.enum_limit)
         if not verdict.passed:

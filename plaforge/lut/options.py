@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Literal
 
-from ..table import DEFAULT_ENUM_LIMIT
+from ..core.table import DEFAULT_ENUM_LIMIT
 
 __all__ = ["LutOptions"]
 

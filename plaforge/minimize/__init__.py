@@ -19,8 +19,8 @@ from __future__ import annotations
 
 import time
 
-from ..cube import Cover
-from ..table import Table
+from ..core.cube import Cover
+from ..core.table import Table
 from .options import CostModel, MinimizeOptions
 from .summary import cover_summary, format_summary
 

@@ -52,9 +52,9 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from ..cube import Cover, Cube
-from ..errors import SolverFailure, TooWide
-from ..table import Table, _valid_mask, unpack_bits
+from ..core.cube import Cover, Cube
+from ..core.errors import SolverFailure, TooWide
+from ..core.table import Table, _valid_mask, unpack_bits
 from .heuristic import FunctionSets, cover_cubes, merge_identical, sort_cubes, table_sets, verify_cover
 from .options import MinimizeOptions
 from .progress import Progress

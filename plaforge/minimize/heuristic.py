@@ -40,9 +40,9 @@ from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
 
-from ..cube import Cover, Cube, complement, cube_list_contains
-from ..errors import SolverFailure
-from ..table import DEFAULT_ENUM_LIMIT, Table
+from ..core.cube import Cover, Cube, complement, cube_list_contains
+from ..core.errors import SolverFailure
+from ..core.table import DEFAULT_ENUM_LIMIT, Table
 from .options import MinimizeOptions
 
 __all__ = [
@@ -237,7 +237,7 @@ def _signature_rows(fs: FunctionSets) -> set[tuple] | None:
         return None
     import numpy as np
 
-    from ..table import bool_array_to_cubes, cubes_bits, unpack_bits
+    from ..core.table import bool_array_to_cubes, cubes_bits, unpack_bits
 
     on_sig = np.zeros(1 << n, dtype=np.uint64)
     dc_sig = np.zeros(1 << n, dtype=np.uint64)

@@ -23,8 +23,8 @@ from __future__ import annotations
 
 import time
 
-from ..cube import Cube
-from ..table import Table
+from ..core.cube import Cube
+from ..core.table import Table
 from .heuristic import FunctionSets, cover_cubes, table_sets
 from .options import MinimizeOptions
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from ..cube import Cover
+from ..core.cube import Cover
 
 __all__ = ["cover_summary", "format_summary"]
 

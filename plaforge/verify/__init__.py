@@ -1,7 +1,6 @@
 """Verification of every artifact against the source Table."""
 
 from .equivalence import OutputVerdict, Verdict, check_cover, check_network
-from .harness import check_artifact, prove
 from .report import format_vector, format_verdict
 from .sat import sat_check_cover, sat_check_network
 from .simulate import check_component
@@ -9,13 +8,11 @@ from .simulate import check_component
 __all__ = [
     "OutputVerdict",
     "Verdict",
-    "check_artifact",
     "check_component",
     "check_cover",
     "check_network",
     "format_vector",
     "format_verdict",
-    "prove",
     "sat_check_cover",
     "sat_check_network",
 ]

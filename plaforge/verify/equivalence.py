@@ -13,11 +13,11 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from ..cube import Cover
-from ..table import DEFAULT_ENUM_LIMIT, Table, _literal_bits, _valid_mask, cubes_bits
+from ..core.cube import Cover
+from ..core.table import DEFAULT_ENUM_LIMIT, Table, _literal_bits, _valid_mask, cubes_bits
 
 if TYPE_CHECKING:  # annotations only: importing plaforge.lut here closes an import cycle through lut.verify_sat
-    from ..lut.network import LutNetwork
+    from ..core.network import LutNetwork
 
 __all__ = ["OutputVerdict", "Verdict", "check_cover", "check_network", "cover_bits", "first_point", "network_bits"]
 
@@ -102,7 +102,7 @@ def _judge(table: Table, j: int, got: np.ndarray, method: str) -> OutputVerdict:
 
 
 def _names_match(table: Table, inputs: tuple[str, ...], outputs: tuple[str, ...], what: str) -> None:
-    from ..errors import CheckFailed
+    from ..core.errors import CheckFailed
 
     if tuple(inputs) != table.input_names or tuple(outputs) != table.output_names:
         raise CheckFailed(

@@ -7,7 +7,7 @@ the point is input ``i`` of the table).
 
 from __future__ import annotations
 
-from ..table import Table
+from ..core.table import Table
 from .equivalence import Verdict
 
 __all__ = ["format_vector", "format_verdict"]

@@ -9,7 +9,7 @@ For each output ``j`` the prover asks PicoSAT (bundled with pyeda) for a counter
 Don't-care points are in neither set, so they are never counterexamples. Both queries unsatisfiable means
 ON ⊆ artifact ⊆ ON ∪ DC over all ``2**n`` points: a proof, with no enumeration.
 
-Encoding (one encoder, :class:`plaforge.lut.verify_sat.PointCnf`, for covers and networks; variables ``1..n`` are the
+Encoding (one encoder, :class:`plaforge.verify.satcnf.PointCnf`, for covers and networks; variables ``1..n`` are the
 inputs; input ``i`` is variable ``i + 1``):
 
 * ``p`` in a union of cubes ``c_1 .. c_r``: selector variables ``s_k`` with ``(s_1 ∨ … ∨ s_r)`` and ``s_k → literal``
@@ -26,9 +26,9 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from ..cube import Cover
-from ..lut.network import LutNetwork
-from ..table import Table
+from ..core.cube import Cover
+from ..core.network import LutNetwork
+from ..core.table import Table
 from .equivalence import OutputVerdict, Verdict
 
 __all__ = ["SAT_METHOD", "sat_check_cover", "sat_check_network"]
@@ -51,7 +51,7 @@ def sat_check_cover(table: Table, cover: Cover, artifact: str = "cover") -> Verd
         ``vectors`` is 0 (nothing is enumerated); a failure carries a counterexample point with the expected and
         actual values.
     """
-    from ..lut.verify_sat import PointCnf, region  # lazy: plaforge.lut imports plaforge.verify
+    from ..verify.satcnf import PointCnf, region  # lazy: plaforge.lut imports plaforge.verify
 
     _names(table, cover.input_names, cover.output_names, artifact)
     res = []
@@ -75,11 +75,11 @@ def sat_check_cover(table: Table, cover: Cover, artifact: str = "cover") -> Verd
 def sat_check_network(table: Table, net: LutNetwork, artifact: str = "LUT network") -> Verdict:
     """Prove a LUT network against ``table`` output by output (Tseitin encoding; see the module docs).
 
-    The encoding lives with the LUT mapper (:func:`plaforge.lut.verify_sat.check_network_sat`, which also serves
+    The encoding lives with the LUT mapper (:func:`plaforge.verify.satcnf.check_network_sat`, which also serves
     the mapper's own SAT queries): it encodes only the cone of LUTs feeding each output and the ON/OFF sets as the
     spec gave them, so no set is ever complemented. This wrapper labels the verdict like every other SAT proof.
     """
-    from ..lut.verify_sat import check_network_sat  # lazy: plaforge.lut imports plaforge.verify
+    from ..verify.satcnf import check_network_sat  # lazy: plaforge.lut imports plaforge.verify
 
     _names(table, net.input_names, net.output_names, artifact)
     verdict = check_network_sat(table, net, artifact)

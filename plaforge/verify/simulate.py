@@ -29,8 +29,8 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from ..errors import CheckFailed, PlaforgeError
-from ..table import DEFAULT_ENUM_LIMIT, Table, unpack_bits
+from ..core.errors import CheckFailed, PlaforgeError
+from ..core.table import DEFAULT_ENUM_LIMIT, Table, unpack_bits
 from .equivalence import OutputVerdict, Verdict
 
 if TYPE_CHECKING:

@@ -23,13 +23,13 @@ import json
 import os
 from pathlib import Path
 
-from ..cube import Cover
-from ..errors import CheckFailed, PlaforgeError
-from ..lut.network import LutNetwork
-from ..table import DEFAULT_ENUM_LIMIT, Table
-from .equivalence import OutputVerdict, Verdict, check_cover, check_network
-from .sat import sat_check_cover, sat_check_network
-from .simulate import DEFAULT_SAMPLES, check_component, component_class, load_module
+from .core.cube import Cover
+from .core.errors import CheckFailed, PlaforgeError
+from .core.network import LutNetwork
+from .core.table import DEFAULT_ENUM_LIMIT, Table
+from .verify.equivalence import OutputVerdict, Verdict, check_cover, check_network
+from .verify.sat import sat_check_cover, sat_check_network
+from .verify.simulate import DEFAULT_SAMPLES, check_component, component_class, load_module
 
 __all__ = ["ARTIFACT_SUFFIXES", "check_artifact", "prove"]
 
@@ -116,13 +116,13 @@ def check_artifact(
     suffix = p.suffix.lower()
     name = p.name
     if suffix == ".pla":
-        from ..formats.pla import read_cover
+        from .formats.pla import read_cover
 
         return prove(table, read_cover(p), enum_limit=enum_limit, name=name)
     if suffix == ".json":
         return prove(table, _read_network(p), enum_limit=enum_limit, name=name)
     if suffix == ".py":
-        from ..emit.amaranth import embedded_artifact
+        from .emit.amaranth import embedded_artifact
 
         mod = load_module(p)
         cls = component_class(mod, str(p))

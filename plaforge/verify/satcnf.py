@@ -19,10 +19,10 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from ..cube import Cube
-from ..table import DEFAULT_ENUM_LIMIT, Table
-from ..verify.equivalence import OutputVerdict, Verdict, _names_match, check_network
-from .network import LutNetwork
+from ..core.cube import Cube
+from ..core.table import DEFAULT_ENUM_LIMIT, Table
+from .equivalence import OutputVerdict, Verdict, _names_match, check_network
+from ..core.network import LutNetwork
 
 __all__ = ["PointCnf", "check_network_any", "check_network_sat", "region", "sat_point"]
 
