@@ -111,13 +111,13 @@ def test_overlap_too_large_to_separate_is_a_clear_error(monkeypatch):
     import pytest
 
     import plaforge.core.table as table_mod
-    from plaforge.core.errors import TooWide
+    from plaforge.core.errors import SizeLimit
 
     monkeypatch.setattr(table_mod, "SHARP_LIMIT", 4)
     n = 8
     dc = tuple(Cube.point(p, n) for p in (3, 77, 140, 201, 250, 9))
     t = Table(tuple(f"x{i}" for i in range(n)), ("y",), ((Cube(0b1, 0b1),),), (dc,), (None,), source="t.pla")
-    with pytest.raises(TooWide, match="t.pla: output 'y': its ON rows overlap its don't-care rows"):
+    with pytest.raises(SizeLimit, match="t.pla: output 'y': its ON rows overlap its don't-care rows"):
         t.on_cubes(0)
     # support falls back to the rows as given: y = x0 still depends on x0 only
     assert t.support_names(0) == ["x0"]

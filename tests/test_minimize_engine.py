@@ -12,7 +12,7 @@ from click.testing import CliRunner
 
 from plaforge.cli import cli
 from plaforge.core.cube import Cover, Cube
-from plaforge.core.errors import SolverFailure, TooWide
+from plaforge.core.errors import InternalError, SizeLimit, TimeLimit
 from plaforge.minimize import MinimizeOptions, cover_summary, minimize
 from plaforge.minimize.heuristic import decode_row, encode_cube, run_isolated, verify_cover
 from plaforge.core.table import Table
@@ -59,24 +59,24 @@ def test_positional_notation_round_trip() -> None:
 
 
 def test_child_crash_becomes_solver_failure() -> None:
-    with pytest.raises(SolverFailure, match="crashed"):
+    with pytest.raises(InternalError, match="crashed"):
         run_isolated(_crash, (), 10, "the test minimizer")
 
 
 def test_child_timeout_becomes_solver_failure() -> None:
-    with pytest.raises(SolverFailure, match="did not finish"):
+    with pytest.raises(TimeLimit, match="did not finish"):
         run_isolated(_sleep, (), 0.5, "the test minimizer")
 
 
 def test_child_error_becomes_solver_failure() -> None:
-    with pytest.raises(SolverFailure, match="boom"):
+    with pytest.raises(InternalError, match="boom"):
         run_isolated(_raise, (), 10, "the test minimizer")
 
 
 def test_wrong_cover_is_rejected() -> None:
     t = Table.from_function(["a", "b"], ["y"], lambda p: [p == 3])
     bad = Cover(("a", "b"), ("y",), (Cube.parse("1-"),))
-    with pytest.raises(SolverFailure, match="wrong cover"):
+    with pytest.raises(InternalError, match="wrong cover"):
         verify_cover(t, bad, "a test")
 
 
@@ -92,7 +92,7 @@ def test_options_validate() -> None:
 def test_exact_refuses_wide_tables() -> None:
     names = tuple(f"a[{i}]" for i in range(20))
     t = Table(names, ("y",), ((Cube.parse("1" * 20),),), ((),), (None,))
-    with pytest.raises(TooWide, match="exact path"):
+    with pytest.raises(SizeLimit, match="exact path"):
         minimize(t, MinimizeOptions(exact=True))
 
 

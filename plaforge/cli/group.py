@@ -1,17 +1,19 @@
 """The command group: thin click commands that parse, call the public API and print.
 
-Every user-caused error is a :class:`plaforge.errors.PlaforgeError`; it is printed here, in one place, as one line
-on stderr, and the process exits with its status (2 bad input or usage, 1 a failed check). No traceback reaches a
-user for bad input.
+Every user-caused error is a :class:`plaforge.core.errors.PlaforgeError`; it is printed here, in one place, as one
+line on stderr, and the process exits with its status (docs/conventions.md). Any other exception is a bug: it is
+printed as one ``internal error, please report`` line with status 4 (set ``PLAFORGE_TRACEBACK=1`` to see the
+traceback instead). No traceback reaches a user for bad input.
 """
 
 from __future__ import annotations
 
+import os
 from typing import Any
 
 import click
 
-from ..core.errors import PlaforgeError
+from ..core.errors import EXIT_INTERNAL, InternalError, PlaforgeError
 
 __all__ = ["cli", "main"]
 
@@ -20,12 +22,26 @@ class _Group(click.Group):
     def invoke(self, ctx: click.Context) -> Any:
         try:
             return super().invoke(ctx)
+        except click.exceptions.Exit:
+            raise
+        except click.ClickException:
+            raise
+        except click.exceptions.Abort:
+            raise
+        except InternalError as exc:
+            click.echo(f"plaforge: internal error, please report: {exc}", err=True)
+            ctx.exit(EXIT_INTERNAL)
         except PlaforgeError as exc:
             click.echo(f"plaforge: {exc}", err=True)
             ctx.exit(exc.exit_code)
         except KeyboardInterrupt:
             click.echo("plaforge: interrupted", err=True)
             ctx.exit(130)
+        except Exception as exc:  # a bug: one line, its own status, never a failed check
+            if os.environ.get("PLAFORGE_TRACEBACK"):
+                raise
+            click.echo(f"plaforge: internal error, please report: {type(exc).__name__}: {exc}", err=True)
+            ctx.exit(EXIT_INTERNAL)
 
 
 @click.group(cls=_Group, context_settings={"help_option_names": ["-h", "--help"]})
@@ -35,7 +51,8 @@ def cli() -> None:
     against the source table.
 
     SPEC is a .pla, .csv or .toml file, chosen by its extension. Exit status: 0 success, 1 a check failed or a
-    result does not fit a budget, 2 bad input or usage.
+    result does not fit a budget, 2 bad input or usage, 3 a time or size limit was reached (the message names
+    the option that raises it), 4 internal error.
     """
 
 

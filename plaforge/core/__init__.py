@@ -7,14 +7,17 @@ shared cubes; a :class:`Table` is the function as given (ON, DC and OFF cubes pe
 """
 
 from .cube import Cover, Cube
-from .errors import CheckFailed, PlaforgeError, SpecError, TooWide
+from .errors import ArtifactError, CheckFailed, InternalError, LimitReached, PlaforgeError, SpecError
 from .network import Lut, LutNetwork, init_hex
 from .table import DEFAULT_ENUM_LIMIT, Bus, Table
 
 __all__ = [
     "DEFAULT_ENUM_LIMIT",
     "Bus",
+    "ArtifactError",
     "CheckFailed",
+    "InternalError",
+    "LimitReached",
     "Cover",
     "Cube",
     "Lut",
@@ -22,6 +25,5 @@ __all__ = [
     "PlaforgeError",
     "SpecError",
     "Table",
-    "TooWide",
     "init_hex",
 ]

@@ -26,7 +26,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .cube import Cube, SharpTooLarge, complement, drop_inputs, sharp
-from .errors import TooWide
+from .errors import EnumerationLimit, SizeLimit
 
 __all__ = [
     "DEFAULT_ENUM_LIMIT",
@@ -197,7 +197,7 @@ class Table:
                 try:
                     s = _sharp(s, dc)
                 except SharpTooLarge:
-                    raise TooWide(
+                    raise SizeLimit(
                         f"{self.source or 'table'}: output {self.output_names[j]!r}: its "
                         f"{'ON' if kind == 0 else 'OFF'} rows overlap its don't-care rows so much that separating "
                         f"them needs more than {SHARP_LIMIT} cubes; give the don't-cares as rows of their own, "
@@ -238,7 +238,7 @@ class Table:
             return self._cache[key]
         try:
             on, off = self.on_cubes(j), self.off_cubes(j)
-        except TooWide:
+        except SizeLimit:
             # ON or OFF rows overlap the don't-cares too much to separate: use the rows as given. Points in both
             # then count as ON (or OFF), so the support found may keep an input a don't-care would let go.
             on = self.on[j] if self.on[j] is not None else self.on_cubes(j)
@@ -268,7 +268,7 @@ class Table:
     # -- bit-parallel truth tables -------------------------------------------------------------------------------
     def check_enumerable(self, limit: int = DEFAULT_ENUM_LIMIT, what: str = "this operation") -> None:
         if self.n_inputs > limit:
-            raise TooWide(
+            raise EnumerationLimit(
                 f"{self.source or 'table'}: {what} enumerates 2^{self.n_inputs} points, above the enumeration "
                 f"limit of {limit} inputs; raise the limit or use a cube-based path"
             )

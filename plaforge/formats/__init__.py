@@ -1,7 +1,7 @@
 """Spec readers (chosen by file extension) and the PLA writer.
 
 ``read_spec(path)`` returns a :class:`plaforge.table.Table`; every malformed file raises
-:class:`plaforge.errors.SpecError` with ``FILE:LINE[:COL]: what is wrong, what was expected``.
+:class:`plaforge.core.errors.SpecError` with ``FILE:LINE[:COL]: what is wrong, what was expected``.
 """
 
 from __future__ import annotations

@@ -278,7 +278,7 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
 
     Raises
     ------
-    plaforge.errors.CheckFailed
+    plaforge.core.errors.CheckFailed
         When ``options.verify`` is set and the network does not match the table (a bug).
 
     Examples

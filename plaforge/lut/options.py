@@ -40,7 +40,7 @@ class LutOptions:
         covers of the subject graph.
     verify : bool
         Re-check the finished network against the table (exhaustive within ``enum_limit``, SAT beyond) and raise
-        :class:`plaforge.errors.CheckFailed` on a mismatch.
+        :class:`plaforge.core.errors.CheckFailed` on a mismatch.
     enum_limit : int
         Enumeration limit for that check.
     """

@@ -45,9 +45,9 @@ def minimize(table: Table, options: MinimizeOptions | None = None) -> Cover:
 
     Raises
     ------
-    plaforge.errors.SolverFailure
+    plaforge.core.errors.InternalError
         The compiled minimizer crashed, timed out or returned a wrong cover.
-    plaforge.errors.TooWide
+    plaforge.core.errors.LimitReached
         ``exact`` on a table wider than ``options.exact_limit`` inputs.
     """
     if not isinstance(table, Table):

@@ -53,7 +53,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from ..core.cube import Cover, Cube
-from ..core.errors import SolverFailure, TooWide
+from ..core.errors import InternalError, LimitReached, SizeLimit
 from ..core.table import Table, _valid_mask, unpack_bits
 from .heuristic import FunctionSets, cover_cubes, merge_identical, sort_cubes, table_sets, verify_cover
 from .options import MinimizeOptions
@@ -112,7 +112,7 @@ def multi_output_primes(on: Sequence[np.ndarray], dc: Sequence[np.ndarray], n: i
     """All useful multi-output primes of the function with point sets ``on[j]``, ``dc[j]`` (boolean arrays)."""
     m = len(on)
     if m > 64:
-        raise TooWide(f"the exact path handles at most 64 outputs at once, not {m}; use --cost per-output")
+        raise SizeLimit(f"the exact path handles at most 64 outputs at once, not {m}; use --cost per-output")
     size = 1 << n
     f_tags = np.zeros(size, dtype=np.uint64)
     on_tags = np.zeros(size, dtype=np.uint64)
@@ -569,7 +569,7 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int = 0) ->
     deadline = time.monotonic() + options.time_limit
     n, m = table.n_inputs, table.n_outputs
     if n > options.exact_limit:
-        raise TooWide(
+        raise SizeLimit(
             f"{table.source or 'table'}: the exact path enumerates 3^{n} cubes, above its limit of "
             f"{options.exact_limit} inputs; use the heuristic (drop --exact)"
         )
@@ -580,7 +580,7 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int = 0) ->
     try:
         heur: list[Cube] | None = cover_cubes(
             fs, per_output, replace(options, time_limit=max(0.5, options.time_limit / 3)))
-    except SolverFailure:
+    except (InternalError, LimitReached):
         heur = None
     with Progress(options.progress, f"exact minimization of {table.source or 'table'}") as progress:
         groups = [[j] for j in range(m)] if per_output else [list(range(m))]

@@ -26,7 +26,7 @@ Isolation and trust
 The compiled minimizer keeps global configuration (``set_config``), which is reset to its defaults before every
 call, and it may end the whole process on some internal errors. By default it therefore runs in a forked child
 process with a time limit; a crash, a timeout or an answer that fails re-verification raises
-:class:`plaforge.errors.SolverFailure`. Re-verification is exhaustive and bit-parallel up to the enumeration limit,
+:class:`plaforge.core.errors.InternalError`. Re-verification is exhaustive and bit-parallel up to the enumeration limit,
 and cube-based above it (every cover cube inside ON ∪ DC, every ON cube inside the cover, both as tautology checks
 of cofactors).
 """
@@ -41,7 +41,7 @@ from types import MappingProxyType
 from typing import Any
 
 from ..core.cube import Cover, Cube, complement, cube_list_contains
-from ..core.errors import SolverFailure
+from ..core.errors import InternalError, TimeLimit
 from ..core.table import DEFAULT_ENUM_LIMIT, Table
 from .options import MinimizeOptions
 
@@ -160,7 +160,7 @@ def decode_row(inpart: Sequence[int], outpart: Sequence[int]) -> Cube:
             care |= 1 << i
             value |= 1 << i
         elif v != 3:
-            raise SolverFailure(f"minimizer returned input entry {v!r} at column {i}; expected 1, 2 or 3")
+            raise InternalError(f"minimizer returned input entry {v!r} at column {i}; expected 1, 2 or 3")
     outputs = 0
     for j, v in enumerate(outpart):
         if v == 1:
@@ -279,7 +279,7 @@ def _child(conn: Any, fn: Callable[..., Any], args: tuple) -> None:  # pragma: n
 
 
 def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str) -> Any:
-    """Call ``fn(*args)`` in a child process; its result, or :class:`SolverFailure` on crash, error or timeout.
+    """Call ``fn(*args)`` in a child process; its result, or :class:`InternalError` on crash, error or timeout.
 
     Uses ``fork`` where available (a few milliseconds), ``spawn`` elsewhere. ``fn`` and its result must pickle.
     """
@@ -291,12 +291,12 @@ def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str)
     send.close()
     try:
         if not recv.poll(timeout):
-            raise SolverFailure(f"{what} did not finish within {timeout:g} s; raise --time-limit or simplify the input")
+            raise TimeLimit(f"{what} did not finish within {timeout:g} s", "--time-limit")
         try:
             status, payload = recv.recv()
         except EOFError:
             proc.join(5)
-            raise SolverFailure(
+            raise InternalError(
                 f"{what} crashed (exit status {proc.exitcode}) on this input; the cover could not be computed"
             ) from None
     finally:
@@ -305,7 +305,7 @@ def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str)
         proc.join(5)
         recv.close()
     if status != "ok":
-        raise SolverFailure(f"{what} failed: {payload}")
+        raise InternalError(f"{what} failed: {payload}")
     return payload
 
 
@@ -360,7 +360,7 @@ def _cube_check(fs: FunctionSets, cubes: Sequence[Cube]) -> str | None:
 
 
 def verify_cover(table: Table, cover: Cover, what: str) -> None:
-    """Raise :class:`SolverFailure` unless ``cover`` realizes ``table`` (ON ⊆ cover ⊆ ON ∪ DC, inversion honoured).
+    """Raise :class:`InternalError` unless ``cover`` realizes ``table`` (ON ⊆ cover ⊆ ON ∪ DC, inversion honoured).
 
     Exhaustive bit-parallel check up to :data:`plaforge.table.DEFAULT_ENUM_LIMIT` inputs, cube-based above.
     """
@@ -371,11 +371,11 @@ def verify_cover(table: Table, cover: Cover, what: str) -> None:
         bad = [o for o in verdict.outputs if not o.passed]
         if bad:
             o = bad[0]
-            raise SolverFailure(f"{what} returned a wrong cover: output {o.name!r} fails at point {o.failure}")
+            raise InternalError(f"{what} returned a wrong cover: output {o.name!r} fails at point {o.failure}")
         return
     problem = _cube_check(table_sets(table, cover.inverted), cover.cubes)
     if problem:
-        raise SolverFailure(f"{what} returned a wrong cover: {problem}")
+        raise InternalError(f"{what} returned a wrong cover: {problem}")
 
 
 #: Most inputs for which the heuristic path also computes the independent-row lower bound of the exact path.

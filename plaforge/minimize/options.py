@@ -20,7 +20,7 @@ class MinimizeOptions:
         Prove a minimum cover (multi-output primes + CP-SAT) instead of the heuristic.
     time_limit : float
         Wall-clock seconds the exact solver may spend (past it: best cover and best lower bound). Also the limit
-        after which a heuristic run is abandoned with :class:`plaforge.errors.SolverFailure`.
+        after which a heuristic run is abandoned with :class:`plaforge.core.errors.InternalError`.
     cost : {"shared", "per-output"}
         ``shared`` counts distinct product terms (PLA AND-plane rows), outputs share terms; ``per-output`` counts
         product terms output by output (no sharing: every output is minimized alone). Literals break ties.
