@@ -49,7 +49,7 @@ def bench_simulation(names: list[str]) -> list[str]:
     for name in names:
         t = SUITE[name]()
         for style in ("sop", "lut"):
-            art = minimize(t) if style == "sop" else map_luts(t, 6)
+            art = minimize(t) if style == "sop" else map_luts(t, minimize(t), 6)
             nodes = art.rows if style == "sop" else art.count
             # setup: elaboration, simulator construction and one vector
             t0 = time.perf_counter()

@@ -18,10 +18,11 @@ import time
 from collections.abc import Sequence
 
 from plaforge.core.cube import Cover
-from plaforge.lut import LutNetwork, check_network_any, map_luts
-from plaforge.lut.mapper import tidy_network
 from plaforge.core.network import Lut
+from plaforge.lut import LutNetwork, map_luts
+from plaforge.lut.mapper import tidy_network
 from plaforge.minimize import minimize
+from plaforge.verify.satcnf import check_network_any
 
 from .suite import SUITE, machine
 
@@ -97,7 +98,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         cover = minimize(table)
         for k in (4, 6):
             t0 = time.perf_counter()
-            net = map_luts(table, k)
+            net = map_luts(table, cover, k)
             secs = time.perf_counter() - t0
             base = two_level_luts(cover, k)
             for n_ in (net, base):

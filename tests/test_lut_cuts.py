@@ -11,11 +11,13 @@ import random
 
 import numpy as np
 import pytest
+from lut_bruteforce import min_depth_bruteforce
 
-from plaforge.lut import LutOptions, map_luts
-from plaforge.lut.cuts import SubjectGraph, graph_from_network, map_subject, mapping_to_luts, min_depth_bruteforce
 from plaforge.core.network import LutNetwork
 from plaforge.core.table import Table
+from plaforge.lut import LutOptions, map_luts
+from plaforge.lut.cuts import SubjectGraph, graph_from_network, map_subject, mapping_to_luts
+from plaforge.minimize import minimize
 
 
 def _random_graph(rnd: random.Random, n_pis: int, gates: int) -> SubjectGraph:
@@ -76,8 +78,9 @@ def test_mapper_depth_is_optimal_for_its_decomposed_network(seed):
     vals = rnd.random(1 << n) < 0.5
     t = Table.from_function([f"x{i}" for i in range(n)], ["y"], lambda p: [vals[p]])
     k = 3 + seed % 2
-    base = map_luts(t, k, LutOptions(remap=False))
-    best = map_luts(t, k, LutOptions(objective="depth", cut_limit=0))
+    cover = minimize(t)
+    base = map_luts(t, cover, k, LutOptions(remap=False))
+    best = map_luts(t, cover, k, LutOptions(objective="depth", cut_limit=0))
     g = graph_from_network(base)
     if len(g) - g.n_pis > 9:
         pytest.skip(f"decomposed network of {len(g) - g.n_pis} LUTs is too large to brute-force")

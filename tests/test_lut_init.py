@@ -5,10 +5,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from plaforge.core.table import Table
 from plaforge.lut import LutNetwork, c_header, format_init, map_luts, pad_init
 from plaforge.lut.export import c_identifier, format_listing, padded_network
-from plaforge.lut.init import drop_unused_inputs, init_from_bits, permute_init
-from plaforge.core.table import Table
+from plaforge.lut.init import drop_unused_inputs
+from plaforge.minimize import minimize
 
 
 def _bit(p: np.ndarray, i: int) -> np.ndarray:
@@ -17,7 +18,8 @@ def _bit(p: np.ndarray, i: int) -> np.ndarray:
 
 def _single(fn, n: int, k: int = 4) -> LutNetwork:
     names = [f"i{b}" for b in range(n)]
-    return map_luts(Table.from_function(names, ["y"], lambda p: [fn(p)]), k=k)
+    t = Table.from_function(names, ["y"], lambda p: [fn(p)])
+    return map_luts(t, minimize(t), k=k)
 
 
 # -- facts of the trade -------------------------------------------------------------------------------------------
@@ -72,15 +74,15 @@ def test_pad_rejects_a_smaller_lut():
         pad_init(0xCA, 3, 2)
 
 
-def test_permute_and_drop_against_the_mux():
-    # the mux 0xCA on (i0, i1, i2); reordered to (i2, i0, i1) it is the same function read another way
-    perm = permute_init(0xCA, 3, [2, 0, 1])
-    for q in range(8):
-        s, a, b = q & 1, q >> 1 & 1, q >> 2 & 1
-        assert perm >> q & 1 == (b if s else a)  # definition of a 2:1 mux (common practice)
-    # AND on i0, i1 padded to 4 inputs depends on i0, i1 only
+def test_drop_unused_inputs_undoes_padding():
+    # common practice: 0x8888 is an AND of i0, i1 in a 4-input LUT (i2, i3 unused), 0xCACA the 2:1 mux of i0, i1
+    # selected by i2 (i3 unused); reduced, they are the 2-input AND 0x8 and the 3-input mux 0xCA
     assert drop_unused_inputs(0x8888, 4) == (0x8, (0, 1))
-    assert init_from_bits([0, 0, 0, 1]) == 0x8
+    assert drop_unused_inputs(0xCACA, 4) == (0xCA, (0, 1, 2))
+    # an XOR of i2, i3 with i0, i1 unused, built from the INIT bit order (bit p: fan-in b is bit b of p, common
+    # practice); reduced, it is the 2-input XOR 0x6 on the old fan-ins 2 and 3
+    xor_hi = sum(((p >> 2 ^ p >> 3) & 1) << p for p in range(16))
+    assert drop_unused_inputs(xor_hi, 4) == (0x6, (2, 3))
 
 
 # -- single-LUT outputs from a Table ------------------------------------------------------------------------------
@@ -92,7 +94,7 @@ def test_plain_and_complemented_inputs_and_sharing():
         return [b, ~a, a & c, a & c, np.zeros(p.size, dtype=bool)]
 
     t = Table.from_function(names, ["z", "na", "x", "x2", "zero"], fn)
-    net = map_luts(t, k=4)
+    net = map_luts(t, minimize(t), k=4)
     d = dict(zip(net.output_names, net.drivers))
     assert d["z"] == "b" and d["zero"] == "0"
     inv = next(lut for lut in net.luts if lut.name == d["na"])
@@ -112,7 +114,7 @@ def test_dont_cares_drop_support():
         return [_bit(p, 0) ^ _bit(p, 1)]
 
     t = Table.from_function(["a", "b"], ["y"], fn, dc)
-    net = map_luts(t, k=4)
+    net = map_luts(t, minimize(t), k=4)
     assert net.count == 0 and net.drivers[0] in ("a", "b")
 
 
@@ -127,7 +129,7 @@ def test_dont_cares_allow_sharing():
         return [np.zeros(p.size, dtype=bool), a ^ b]
 
     t = Table.from_function(["a", "b", "c"], ["y1", "y2"], fn, dc)
-    net = map_luts(t, k=4)
+    net = map_luts(t, minimize(t), k=4)
     assert net.drivers[0] == net.drivers[1] and net.count == 1
 
 

@@ -8,10 +8,13 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from plaforge.core.cube import Cube
-from plaforge.lut import LutOptions, check_network_any, check_network_sat, lower_bounds, map_luts
+from plaforge.core.cube import Cover, Cube
+from plaforge.core.errors import InternalError
 from plaforge.core.network import Lut, LutNetwork
 from plaforge.core.table import Table
+from plaforge.lut import LutOptions, lower_bounds, map_luts
+from plaforge.minimize import minimize
+from plaforge.verify.satcnf import check_network_any, check_network_sat
 
 
 def _adder(w: int) -> Table:
@@ -30,7 +33,8 @@ def _eval_all(net: LutNetwork, n: int) -> list[int]:
 
 @pytest.mark.parametrize("w, k", [(3, 3), (4, 4), (6, 6), (6, 4)])
 def test_adder_matches_integer_addition(w, k):
-    net = map_luts(_adder(w), k=k)
+    t = _adder(w)
+    net = map_luts(t, minimize(t), k=k)
     assert all(len(lut.inputs) <= k for lut in net.luts)
     mask = (1 << w) - 1
     for p, got in enumerate(_eval_all(net, 2 * w)):
@@ -41,7 +45,8 @@ def test_adder_matches_integer_addition(w, k):
 
 def test_six_bit_adder_with_6_luts_is_within_half_again_of_the_bound():
     # the aim: at most 1.5x the LUT-count lower bound on the 6-bit adder with k = 6
-    net = map_luts(_adder(6), k=6)
+    t = _adder(6)
+    net = map_luts(t, minimize(t), k=6)
     assert net.lower_bounds["count"] == 7  # seven different non-trivial outputs
     assert net.count <= 1.5 * net.lower_bounds["count"]
 
@@ -51,7 +56,7 @@ def test_wide_and_tree_meets_the_tree_bounds():
     # so a 16-input AND needs 5 four-input LUTs in 2 levels, and that is achievable.
     names = [f"x{i}" for i in range(16)]
     t = Table.from_function(names, ["y"], lambda p: [p == (1 << 16) - 1])
-    net = map_luts(t, k=4, options=LutOptions(objective="depth"))
+    net = map_luts(t, minimize(t), k=4, options=LutOptions(objective="depth"))
     assert (net.lower_bounds["count"], net.lower_bounds["depth"]) == (5, 2)
     assert (net.count, net.depth) == (5, 2)
     assert net.evaluate((1 << 16) - 1) == 1 and net.evaluate((1 << 16) - 2) == 0
@@ -59,7 +64,7 @@ def test_wide_and_tree_meets_the_tree_bounds():
 
 def test_names_are_deterministic_and_avoid_inputs():
     t = Table.from_function(["n0", "n1", "n2", "n3", "n4"], ["y"], lambda p: [(p % 3 == 0) ^ (p > 20)])
-    a, b = map_luts(t, k=3), map_luts(t, k=3)
+    a, b = map_luts(t, minimize(t), k=3), map_luts(t, minimize(t), k=3)
     assert a.to_json() == b.to_json()  # byte-identical
     assert all(lut.name.startswith("n_") for lut in a.luts)
     assert [lut.name for lut in a.luts] == [f"n_{i}" for i in range(a.count)]
@@ -83,7 +88,7 @@ def test_pyeda_expressions(text, k):
     ref = np.array([int(f.restrict({x[i]: p >> i & 1 for i in range(8)})) for p in range(256)], dtype=bool)
     dc = (np.arange(256) % 7 == 3)  # some don't-cares
     t = Table.from_function([f"x{i}" for i in range(8)], ["y"], lambda p: [ref[p]], lambda p: [dc[p]])
-    net = map_luts(t, k=k)
+    net = map_luts(t, minimize(t), k=k)
     for p in range(256):
         if not dc[p]:
             assert net.evaluate(p) == int(ref[p])  # reference: pyeda expression evaluation
@@ -98,7 +103,7 @@ def test_random_tables_with_dont_cares(n, m, k, rnd):
     dcs = [np.array([rnd.random() < 0.3 for _ in range(size)]) for _ in range(m)]
     t = Table.from_function([f"i{b}" for b in range(n)], [f"o{j}" for j in range(m)],
                             lambda p: [v[p] for v in vals], lambda p: [d[p] for d in dcs])
-    net = map_luts(t, k=k, options=LutOptions(verify=False))
+    net = map_luts(t, minimize(t), k=k, options=LutOptions(verify=False))
     for p in range(size):
         got = net.evaluate(p)
         for j in range(m):
@@ -111,7 +116,7 @@ def test_random_tables_with_dont_cares(n, m, k, rnd):
 # -- SAT verification ------------------------------------------------------------------------------------------------
 def test_sat_check_agrees_with_enumeration_and_finds_a_real_counterexample():
     t = _adder(4)
-    net = map_luts(t, k=4)
+    net = map_luts(t, minimize(t), k=4)
     assert check_network_sat(t, net).passed
     # flip one INIT bit of the LUT driving the top sum bit
     victim = net.drivers[-1]
@@ -135,7 +140,7 @@ def test_wide_table_is_mapped_and_proven_without_enumerating():
     c2 = Cube(((1 << 20) - 1) << 10 | 1, 0)
     z = Cube(1 << 29, 0, 2)
     t = Table(tuple(names), ("y", "z"), ((c1, c2), (z.with_outputs(2),)), ((), ()), (None, None))
-    net = map_luts(t, k=6)
+    net = map_luts(t, minimize(t), k=6)
     assert net.drivers[1] != "x29"
     verdict = check_network_any(t, net)
     assert verdict.passed and all(o.method == "sat" for o in verdict.outputs)
@@ -150,9 +155,14 @@ def test_wide_table_is_mapped_and_proven_without_enumerating():
 def test_bad_arguments():
     t = _adder(2)
     with pytest.raises(ValueError, match="k must be between 2 and 8, not 9"):
-        map_luts(t, k=9)
+        map_luts(t, minimize(t), k=9)
     with pytest.raises(TypeError, match="needs a Table"):
-        map_luts("t.pla")  # type: ignore[arg-type]
+        map_luts("t.pla", minimize(t))  # type: ignore[arg-type]
+    with pytest.raises(TypeError, match="needs a Cover of the table, not Table"):
+        map_luts(t, t)  # type: ignore[arg-type]
+    other = Table.from_function(["a", "b", "c", "d"], t.output_names, lambda p: [p & 1 > 0] * 3)
+    with pytest.raises(ValueError, match=r"the cover has inputs \['a', 'b', 'c', 'd'\].*the table has inputs"):
+        map_luts(t, minimize(other))
     with pytest.raises(ValueError, match="objective must be 'area' or 'depth'"):
         LutOptions(objective="speed")  # type: ignore[arg-type]
 
@@ -163,7 +173,16 @@ def test_lut_budget_falls_back_to_cuts_on_the_cover():
     rnd = np.random.default_rng(5)
     vals = rnd.random(256) < 0.5
     t = Table.from_function([f"x{i}" for i in range(8)], ["y", "z"], lambda p: [vals[p], (p & 3) == 3])
-    small = map_luts(t, k=4, options=LutOptions(lut_budget=3))
+    small = map_luts(t, minimize(t), k=4, options=LutOptions(lut_budget=3))
     assert "cover cuts" in small.method
     for p in range(256):
         assert small.evaluate(p) == int(vals[p]) | int(p & 3 == 3) << 1
+
+
+def test_a_wrong_network_is_an_internal_error_not_a_failed_check():
+    # every output mapped from the cover (no decomposition); the cover given computes x0 AND x1 where the table
+    # says x0 OR x1, so the finished network is wrong, which the mapper reports as a fault, never as exit 1
+    t = Table.from_function(["x0", "x1"], ["y"], lambda p: [(p & 3) > 0])  # reference: OR as integer test
+    wrong = Cover(t.input_names, t.output_names, (Cube(0b11, 0b11),))
+    with pytest.raises(InternalError, match=r"wrong network for outputs \['y'\].*unless the cover"):
+        map_luts(t, wrong, k=4, options=LutOptions(decompose_limit=0))

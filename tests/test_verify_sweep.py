@@ -52,7 +52,7 @@ def test_both_styles_pass_amaranth_and_iverilog(tmp_path, case: str) -> None:
     t = _table(case)
     if t.n_inputs > LIMIT:
         pytest.skip(f"{case} has {t.n_inputs} inputs; the sweep covers specs of at most {LIMIT}")
-    for style, art in (("sop", _cover(case)), ("lut", map_luts(t, 6))):
+    for style, art in (("sop", _cover(case)), ("lut", map_luts(t, _cover(case), 6))):
         src = module_source(t, art, source_name=case.split(":", 1)[1])
         path = tmp_path / f"m_{style}.py"
         path.write_text(src)

@@ -33,9 +33,10 @@ def luts_cmd(spec: str, k: int, out: str | None, as_json: bool, init_format: str
     from ..formats import read_spec
     from ..lut import LutOptions, c_header, format_listing, map_luts
     from ..lut.export import padded_network
+    from ..minimize import minimize
 
     table = read_spec(spec)
-    net = map_luts(table, k, LutOptions(objective=objective))  # type: ignore[arg-type]
+    net = map_luts(table, minimize(table), k, LutOptions(objective=objective))  # type: ignore[arg-type]
     if out is not None:
         write_text_atomic(out, net.to_json())
     shown = padded_network(net) if pad else net

@@ -3,7 +3,8 @@
 Public API
 ----------
 :func:`map_luts`
-    A table as one shared network of k-LUTs (functional decomposition, cut-based mapping), re-checked.
+    A table and its two-level cover as one shared network of k-LUTs (functional decomposition, cut-based mapping
+    from the cover for wide outputs), re-checked.
 :class:`LutOptions`
     Its options.
 :func:`format_init`, :func:`pad_init`, :func:`c_header`
@@ -11,8 +12,7 @@ Public API
     header of constants.
 """
 
-from ..core.network import Lut, LutNetwork, init_hex
-from ..verify.satcnf import check_network_any, check_network_sat
+from ..core.network import Lut, LutNetwork
 from .export import c_header, format_listing, net_init_constants
 from .init import INIT_STYLES, format_init, pad_init
 from .mapper import lower_bounds, map_luts
@@ -24,11 +24,8 @@ __all__ = [
     "LutNetwork",
     "LutOptions",
     "c_header",
-    "check_network_any",
-    "check_network_sat",
     "format_init",
     "format_listing",
-    "init_hex",
     "lower_bounds",
     "map_luts",
     "net_init_constants",

@@ -7,8 +7,8 @@ from __future__ import annotations
 
 import re
 
-from .init import INIT_STYLES, drop_unused_inputs, format_init, pad_init
 from ..core.network import Lut, LutNetwork
+from .init import INIT_STYLES, drop_unused_inputs, format_init, pad_init
 
 __all__ = ["GLITCH_NOTE", "c_header", "c_identifier", "describe_lut", "format_listing", "net_init_constants", "padded_network"]
 

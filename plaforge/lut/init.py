@@ -1,4 +1,4 @@
-"""INIT vectors: building, padding, permuting and formatting them.
+"""INIT vectors: building, padding, reducing and formatting them.
 
 Vocabulary
 ----------
@@ -24,10 +24,7 @@ __all__ = [
     "depends_on",
     "drop_unused_inputs",
     "format_init",
-    "init_bits",
-    "init_from_bits",
     "pad_init",
-    "permute_init",
 ]
 
 InitStyle = Literal["verilog", "python", "bits"]
@@ -99,32 +96,6 @@ def pad_init(init: int, used: int, k: int) -> int:
         init |= init << width
         width <<= 1
     return init
-
-
-def init_from_bits(bits: Sequence[int | bool]) -> int:
-    """INIT from its bits in point order (``bits[p]`` is the output at fan-in value ``p``)."""
-    init = 0
-    for p, b in enumerate(bits):
-        if b:
-            init |= 1 << p
-    return init
-
-
-def init_bits(init: int, n_inputs: int) -> list[int]:
-    """The ``2**n_inputs`` bits of an INIT in point order."""
-    _check_width(init, n_inputs)
-    return [init >> p & 1 for p in range(1 << n_inputs)]
-
-
-def permute_init(init: int, n_inputs: int, order: Sequence[int]) -> int:
-    """INIT after reordering the fan-ins: new fan-in ``b`` is old fan-in ``order[b]``.
-
-    Cost ``O(2**m * m)``.
-    """
-    _check_width(init, n_inputs)
-    if sorted(order) != list(range(n_inputs)):
-        raise ValueError(f"order {list(order)!r} is not a permutation of range({n_inputs})")
-    return _select(init, order)
 
 
 def _select(init: int, order: Sequence[int]) -> int:

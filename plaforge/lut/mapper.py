@@ -9,8 +9,9 @@ Pipeline
    decomposition on their truth tables (:mod:`plaforge.lut.decompose`), every output reusing the LUTs built for
    the earlier ones (identical or don't-care-compatible functions share one LUT; a LUT that computes a useful
    sub-function, such as a carry, is reused as a signal). An output with ``|S_j| <= k`` is one LUT.
-3. Wider outputs are realized on a multi-level subject graph built from a two-level cover (each product term a
-   tree of 2-input ANDs, each output an OR tree) and mapped by cuts (:mod:`plaforge.lut.cuts`).
+3. Wider outputs are realized on a multi-level subject graph built from the two-level cover the caller gives
+   (each product term a tree of 2-input ANDs, each output an OR tree) and mapped by cuts
+   (:mod:`plaforge.lut.cuts`).
 4. When ``options.remap`` is set, the whole network is remapped by cuts (depth-optimal labels, then area
    recovery), and the better network by ``options.objective`` is kept.
 5. Dead LUTs are removed, LUTs are renamed ``n0, n1, ...`` in topological order, and the network is re-checked
@@ -39,10 +40,10 @@ from collections.abc import Sequence
 import numpy as np
 
 from ..core.cube import Cover, Cube
-from ..core.errors import CheckFailed
+from ..core.errors import InternalError
+from ..core.network import Lut, LutNetwork
 from ..core.table import DEFAULT_ENUM_LIMIT, Table, cubes_bits, unpack_bits
 from .decompose import Decomposer, NetworkBuilder, OverBudget, Pending
-from ..core.network import Lut, LutNetwork
 from .options import LutOptions
 
 __all__ = ["essential_inputs", "lower_bounds", "map_luts", "tidy_network"]
@@ -245,19 +246,18 @@ def _resolve_constant_luts(net: LutNetwork) -> LutNetwork:
                       net.method)
 
 
-def _cover_for(table: Table, outputs: Sequence[int]) -> Cover:
-    """A two-level cover of ``table`` (the project's minimizer when present, else the ON cubes as given)."""
-    try:
-        from ..minimize import minimize
-    except ImportError:  # pragma: no cover - minimizer not installed yet
-        minimize = None  # type: ignore[assignment]
-    if minimize is not None:
-        return minimize(table)
-    cubes = tuple(c for j in outputs for c in table.on_cubes(j))
-    return Cover(table.input_names, table.output_names, cubes, method="table")
+def _check_cover(table: Table, cover: Cover) -> None:
+    """``cover`` is a Cover over the table's input and output names (TypeError / ValueError otherwise)."""
+    if not isinstance(cover, Cover):
+        raise TypeError(f"map_luts() needs a Cover of the table, not {type(cover).__name__}")
+    if cover.input_names != table.input_names or cover.output_names != table.output_names:
+        raise ValueError(
+            f"the cover has inputs {list(cover.input_names)} and outputs {list(cover.output_names)}; the table has "
+            f"inputs {list(table.input_names)} and outputs {list(table.output_names)}"
+        )
 
 
-def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> LutNetwork:
+def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None = None) -> LutNetwork:
     """Map every output of ``table`` onto one shared network of k-input LUTs.
 
     Parameters
@@ -265,6 +265,10 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
     table : Table
         The function; never modified. Don't-cares are used freely; every output satisfies
         ``ON ⊆ network ⊆ ON ∪ DC``.
+    cover : Cover
+        A two-level cover realizing ``table`` (same input and output names), as a minimizer made it (any cost,
+        exact or not, outputs in complement allowed). Outputs too wide to decompose on their truth table are
+        mapped from it (module docs, step 3); the others do not use it.
     k : int
         LUT size, 2 to 8.
     options : LutOptions, optional
@@ -278,19 +282,26 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
 
     Raises
     ------
-    plaforge.core.errors.CheckFailed
-        When ``options.verify`` is set and the network does not match the table (a bug).
+    TypeError
+        ``table`` is not a Table, ``cover`` not a Cover, ``k`` not an int, ``options`` not LutOptions.
+    ValueError
+        ``k`` outside 2..8, or the cover's input or output names differ from the table's.
+    plaforge.core.errors.InternalError
+        When ``options.verify`` is set and the network does not match the table: a bug, unless ``cover`` does not
+        realize the table.
 
     Examples
     --------
-    >>> from plaforge.table import Table
+    >>> from plaforge.core.cube import Cover, Cube
+    >>> from plaforge.core.table import Table
     >>> t = Table.from_function(["a", "b"], ["y"], lambda p: [(p & 1 > 0) & (p & 2 > 0)])
-    >>> net = map_luts(t, k=4)
+    >>> net = map_luts(t, Cover(("a", "b"), ("y",), (Cube(0b11, 0b11),)), k=4)
     >>> [(lut.name, lut.inputs, hex(lut.init)) for lut in net.luts], net.drivers
     ([('n0', ('a', 'b'), '0x8')], ('n0',))
     """
     if not isinstance(table, Table):
         raise TypeError(f"map_luts() needs a Table, not {type(table).__name__}")
+    _check_cover(table, cover)
     if not isinstance(k, int) or isinstance(k, bool):
         raise TypeError(f"k must be an int, not {k!r}")
     if not 2 <= k <= 8:
@@ -360,7 +371,6 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
     if wide:
         from .cuts import map_cover_outputs
 
-        cover = _cover_for(table, wide)
         net = map_cover_outputs(net, cover, wide, opts)
     if opts.remap and net.luts:
         from .cuts import remap_network
@@ -379,5 +389,6 @@ def map_luts(table: Table, k: int = 6, options: LutOptions | None = None) -> Lut
         verdict = check_network_any(table, net, limit=opts.enum_limit)
         if not verdict.passed:
             bad = [o.name for o in verdict.outputs if not o.passed]
-            raise CheckFailed(f"LUT mapping produced a wrong network for outputs {bad} (this is a bug)")
+            raise InternalError(f"LUT mapping produced a wrong network for outputs {bad}: a bug, unless the cover "
+                                "given to map_luts does not realize those outputs")
     return net

@@ -18,8 +18,8 @@ class LutOptions:
     ----------
     decompose_limit : int
         Outputs whose support has at most this many inputs are decomposed functionally on their truth table
-        (2**support points); wider outputs are mapped by cuts on a multi-level subject graph built from a
-        two-level cover.
+        (2**support points); wider outputs are mapped by cuts on a multi-level subject graph built from
+        the two-level cover given to the mapper.
     lut_budget : int
         Most LUTs the decomposition may build for one output (group); past it that output is rolled back and
         mapped by cuts on the cover instead (0: no budget). Keeps irregular wide functions from running long.
@@ -40,7 +40,7 @@ class LutOptions:
         covers of the subject graph.
     verify : bool
         Re-check the finished network against the table (exhaustive within ``enum_limit``, SAT beyond) and raise
-        :class:`plaforge.core.errors.CheckFailed` on a mismatch.
+        :class:`plaforge.core.errors.InternalError` on a mismatch (a wrong mapping is a bug, not a failed check).
     enum_limit : int
         Enumeration limit for that check.
     """
