@@ -22,7 +22,7 @@ LAYERS: tuple[tuple[str, tuple[str, ...]], ...] = (
     ("formats", ("plaforge.formats",)),
     ("verify", ("plaforge.verify",)),
     ("producers", ("plaforge.minimize", "plaforge.lut", "plaforge.emit")),
-    ("pipeline", ("plaforge.flow", "plaforge.report", "plaforge.checking", "plaforge.samples")),
+    ("pipeline", ("plaforge.flow", "plaforge.report", "plaforge.checking", "plaforge.bundled")),
     ("cli", ("plaforge.cli", "plaforge.__main__")),
     ("api", ("plaforge",)),
 )

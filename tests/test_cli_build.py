@@ -7,7 +7,7 @@ import json
 from click.testing import CliRunner
 
 from plaforge.cli import cli
-from plaforge.samples import sample_path
+from plaforge.bundled import sample_path
 
 
 def test_demo_writes_and_checks_every_artifact(tmp_path):
@@ -32,7 +32,7 @@ def test_build_json_and_determinism(tmp_path):
     assert obj["passed"] is True and obj["inputs"] == 6 and obj["outputs"] == 7
     assert obj["luts"]["k"] == 4
     assert set(obj["checks"]) == {"cover", "luts", "module_sop", "module_lut"}
-    for f in a.iterdir():  # DESIGN.md: the same input gives byte-identical artifacts
+    for f in a.iterdir():  # docs/conventions.md: the same input gives byte-identical artifacts
         assert f.read_bytes() == (b / f.name).read_bytes(), f.name
 
 

@@ -8,11 +8,11 @@ import pytest
 from sympy import symbols
 from sympy.logic import SOPform
 
+from plaforge.bundled import sample_path
 from plaforge.core.errors import SpecError
+from plaforge.core.table import Table
 from plaforge.formats import read_spec
 from plaforge.formats.csv import parse_csv
-from plaforge.samples import sample_path
-from plaforge.core.table import Table
 
 
 def _value(table: Table, j: int, point: int) -> int | None:

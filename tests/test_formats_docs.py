@@ -5,10 +5,10 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
-from plaforge.formats.csv import parse_csv
-from plaforge.formats.pla import parse_pla
-from plaforge.formats.spec import parse_design
 from plaforge.core.table import Table
+from plaforge.formats.csv import parse_csv
+from plaforge.formats.design import parse_design
+from plaforge.formats.pla import parse_pla
 
 DOC = Path(__file__).resolve().parent.parent / "docs" / "formats.md"
 
@@ -56,8 +56,8 @@ def test_module_doctests() -> None:
 
     import plaforge.formats._cubes as cubes
     import plaforge.formats.csv as csv_mod
-    from plaforge.formats import expr, pla, spec
+    from plaforge.formats import design, expr, pla
 
-    for mod in (cubes, csv_mod, expr, pla, spec):
+    for mod in (cubes, csv_mod, design, expr, pla):
         res = doctest.testmod(mod)
         assert res.failed == 0 and res.attempted > 0, mod.__name__

@@ -13,8 +13,8 @@ from hypothesis import strategies as st
 from plaforge.cli import cli
 from plaforge.core.errors import SpecError
 from plaforge.formats.csv import parse_csv
+from plaforge.formats.design import parse_design
 from plaforge.formats.pla import parse_cover, parse_pla
-from plaforge.formats.spec import parse_design
 
 PLA_OK = ".i 3\n.o 2\n.ilb a b c\n.ob y z\n.p 2\n1-0 10\n011 01\n.e\n"
 TOML_OK = """\

@@ -4,11 +4,11 @@ from __future__ import annotations
 
 import click
 
+from ..bundled import sample_path
 from ..core.errors import CheckFailed
 from ..flow import BuildOptions, build
 from ..formats import read_spec
 from ..report import build_report, table_summary
-from ..samples import sample_path
 from .group import cli
 
 DEMO_SAMPLE = "memory_map.toml"

@@ -15,7 +15,7 @@ from ._files import read_text
 
 __all__ = ["READERS", "read_spec"]
 
-READERS = {".pla": "pla", ".csv": "csv", ".toml": "spec"}
+READERS = {".pla": "pla", ".csv": "csv", ".toml": "design"}
 
 
 def read_spec(path: str | os.PathLike[str]) -> Table:
@@ -33,6 +33,6 @@ def read_spec(path: str | os.PathLike[str]) -> Table:
         from .csv import parse_csv
 
         return parse_csv(text, str(path))
-    from .spec import parse_design
+    from .design import parse_design
 
     return parse_design(text, str(path))

@@ -25,7 +25,6 @@ __all__ = [
     "and_lists",
     "field_cube",
     "find_overlap",
-    "pattern_cube",
     "place",
     "range_cubes",
     "sharp",
@@ -47,11 +46,6 @@ def field_cube(value: int, mask: int, indices: Sequence[int]) -> Cube:
     """The cube where the field's bits selected by ``mask`` equal those of ``value``."""
     c, v = place(mask, value & mask, indices)
     return Cube(c, v)
-
-
-def pattern_cube(care: int, value: int, indices: Sequence[int]) -> Cube:
-    """Same as :func:`field_cube` with (care, value) naming."""
-    return field_cube(value, care, indices)
 
 
 def range_cubes(lo: int, hi: int, indices: Sequence[int]) -> list[Cube]:

@@ -45,7 +45,7 @@ from ..core.errors import SpecError
 from ..core.table import Bus, Table
 from ._cubes import field_cube, find_overlap
 from ._files import read_text
-from .spec import MAX_WIDTH
+from .design import MAX_WIDTH
 
 __all__ = ["parse_csv", "read_csv"]
 

@@ -5,11 +5,11 @@ from __future__ import annotations
 import pytest
 from sympy import Integer, Rational, floor
 
+from plaforge.bundled import sample_path
 from plaforge.core.cube import Cube, cube_list_contains
-from plaforge.formats import read_spec
-from plaforge.formats.spec import parse_design
-from plaforge.samples import sample_path
 from plaforge.core.table import Table
+from plaforge.formats import read_spec
+from plaforge.formats.design import parse_design
 
 
 def _value(table: Table, j: int, point: int) -> int | None:

@@ -70,11 +70,10 @@ from ..core.cube import Cube
 from ..core.errors import SpecError
 from ..core.table import DEFAULT_ENUM_LIMIT, Bus, Table, bool_array_to_cubes
 from ._cubes import and_lists, field_cube, place, range_cubes, sharp
-from ._files import read_text
 from ._toml import Locator, load_toml
 from .expr import ExprError, Expression, compile_expr, evaluate
 
-__all__ = ["MAX_WIDTH", "parse_design", "read_design"]
+__all__ = ["MAX_WIDTH", "parse_design"]
 
 MAX_WIDTH = 4096
 _NAME = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
@@ -585,8 +584,3 @@ def parse_design(text: str, path: str) -> Table:
     [0, 0, 0, 1]
     """
     return _Reader(text, path).table()
-
-
-def read_design(path: str | os.PathLike[str]) -> Table:
-    """Read a design file from disk (see :func:`parse_design`)."""
-    return parse_design(read_text(path), os.fspath(path))

@@ -1,0 +1,1 @@
+"""Bundled sample specs, installed as the package data ``plaforge.samples`` (see plaforge/bundled.py)."""
