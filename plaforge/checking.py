@@ -5,7 +5,7 @@ suffix    artifact                                      how
 ========  ===========================================  ============================================================
 ``.pla``  a cover in PLA format                         bit-parallel, every point, up to ``enum_limit`` inputs;
                                                         a SAT proof beyond
-``.json`` a LUT network (DESIGN.md LUT JSON contract)   the same
+``.json`` a LUT network in JSON (docs/conventions.md)   the same
 ``.py``   a generated module (one wiring.Component)     Amaranth's simulator: every point up to
                                                         ``exhaustive_limit`` inputs, corners plus a seeded sample
                                                         beyond; and, when the file carries ``PLAFORGE_ARTIFACT``,

@@ -1,4 +1,4 @@
-"""Command-line behaviour shared by every command: help, exit statuses, one-line errors (DESIGN.md contract)."""
+"""Command-line behaviour shared by every command: help, exit statuses, one-line errors (docs/conventions.md)."""
 
 from __future__ import annotations
 

@@ -96,7 +96,7 @@ class LutNetwork:
         return out
 
     def to_json_obj(self) -> dict:
-        """The LUT JSON contract of DESIGN.md."""
+        """The LUT JSON contract (docs/conventions.md)."""
         return {
             "k": self.k,
             "inputs": list(self.input_names),

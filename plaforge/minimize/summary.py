@@ -10,7 +10,7 @@ __all__ = ["cover_summary", "format_summary"]
 
 
 def cover_summary(cover: Cover) -> dict[str, Any]:
-    """The DESIGN.md ``minimize --json`` object: exactly the contract keys, in contract order.
+    """The ``minimize --json`` object (docs/conventions.md): exactly the contract keys, in contract order.
 
     >>> from plaforge.cube import Cover, Cube
     >>> s = cover_summary(Cover(("a", "b"), ("y",), (Cube.parse("11"),), method="heuristic"))

@@ -1,6 +1,6 @@
 """Checking artifacts against the source Table, output by output.
 
-The rule (DESIGN.md): for every output, ON ⊆ artifact ⊆ ON ∪ DC. A check trusts nothing but the Table.
+The rule (docs/conventions.md): for every output, ON ⊆ artifact ⊆ ON ∪ DC. A check trusts nothing but the Table.
 
 Bit-parallel path: both sides as packed truth tables (see :mod:`plaforge.table`); cost O(2**n / 64) word operations
 per cube or LUT, so a 20-input, 16-output cover checks in well under a second.
