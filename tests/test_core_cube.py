@@ -8,7 +8,17 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from plaforge.core.cube import Cover, Cube, complement, cube_list_contains
+from plaforge.core.cube import (
+    CUT_DC_LIMIT,
+    Cover,
+    Cube,
+    SharpTooLarge,
+    complement,
+    cube_list_contains,
+    cut_by_complement,
+    merge_identical,
+    sharp,
+)
 
 
 def cubes_strategy(n: int, max_cubes: int = 6):
@@ -52,6 +62,36 @@ def test_complement_is_exact(cubes):
     n = 5
     comp = complement(cubes)
     assert points_of(comp, n) == set(range(1 << n)) - points_of(cubes, n)
+
+
+@given(cubes_strategy(5), cubes_strategy(5))
+@settings(max_examples=200, deadline=None)
+def test_sharp_and_cut_give_the_points_of_a_not_in_b(a, b):
+    n = 5
+    expected = points_of(a, n) - points_of(b, n)
+    tagged = [c.with_outputs(0b10) for c in a]
+    pieces = sharp(tagged, b)
+    assert points_of(pieces, n) == expected
+    assert all(c.outputs == 0b10 for c in pieces)  # each piece feeds what its cube of a fed
+    cut = cut_by_complement(a, b, 0b100)
+    assert cut is not None and points_of(cut, n) == expected
+    assert all(c.outputs == 0b100 for c in cut)
+
+
+def test_sharp_limit_and_cut_limit():
+    n = 10
+    a = [Cube.universe()]
+    b = [Cube.point(p, n) for p in range(0, 1 << n, 3)]
+    with pytest.raises(SharpTooLarge, match="more than 5 cubes"):
+        sharp(a, b, limit=5)
+    assert len(b) > CUT_DC_LIMIT and cut_by_complement(a, b, 1) is None
+
+
+def test_merge_identical_joins_outputs_in_first_seen_order():
+    x, y = Cube.parse("1-"), Cube.parse("-0")
+    merged = merge_identical([x.with_outputs(1), y.with_outputs(2), x.with_outputs(4), y.with_outputs(0)])
+    assert merged == [x.with_outputs(5), y.with_outputs(2)]
+    assert merge_identical([y.with_outputs(0)]) == []
 
 
 @given(cubes_strategy(5), st.integers(0, 31), st.integers(0, 31))

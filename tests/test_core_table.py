@@ -121,3 +121,34 @@ def test_overlap_too_large_to_separate_is_a_clear_error(monkeypatch):
         t.on_cubes(0)
     # support falls back to the rows as given: y = x0 still depends on x0 only
     assert t.support_names(0) == ["x0"]
+
+
+def test_cover_sets_hand_each_output_its_sets_once():
+    n = 4
+    on = (Cube.parse("1---"), Cube.parse("-1--"))
+    dc = (Cube.parse("11--"), Cube.parse("0011"))
+    t = Table(tuple(f"x{i}" for i in range(n)), ("y", "z"), (on, (Cube.parse("10--"),)), (dc, ()), (None, None))
+    fs = t.cover_sets(0b01)  # y in complement: its ON set is y's OFF set
+    assert fs is t.cover_sets(0b01)  # computed once
+    son, sdc, soff = brute_sets(t, 0)
+    assert {p for p in range(1 << n) if any(c.contains_point(p) for c in fs.on[0])} == soff
+    assert {p for p in range(1 << n) if any(c.contains_point(p) for c in fs.dc[0])} == sdc
+    pieces = t.on_pieces(0)  # given ON cut clear of the don't-cares
+    assert {p for p in range(1 << n) if any(c.contains_point(p) for c in pieces)} == son
+    on_arrays, dc_arrays = fs.point_arrays()
+    assert set(np.flatnonzero(on_arrays[0]).tolist()) == soff
+    assert set(np.flatnonzero(dc_arrays[0]).tolist()) == sdc
+    zon, _, _ = brute_sets(t, 1)
+    assert set(np.flatnonzero(on_arrays[1]).tolist()) == zon
+    # identical input parts of different outputs are one multi-output cube
+    joint = t.cover_sets(0).joint_on
+    assert len({(c.care, c.value) for c in joint}) == len(joint)
+    for j in range(2):
+        parts = {(c.care, c.value) for c in t.cover_sets(0).on[j]}
+        assert {(c.care, c.value) for c in joint if c.outputs >> j & 1} == parts
+    assert Cube.parse("10--", 0b11) in joint  # y's piece 10-- is z's whole ON set
+    # regions: every point lies in the region of its own signature
+    for on_mask, dc_mask, cubes in fs.regions:
+        for p in {p for p in range(1 << n) if any(c.contains_point(p) for c in cubes)}:
+            assert on_mask == sum(1 << j for j in range(2) if on_arrays[j][p])
+            assert dc_mask == sum(1 << j for j in range(2) if dc_arrays[j][p])

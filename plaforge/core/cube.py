@@ -26,7 +26,17 @@ from __future__ import annotations
 from collections.abc import Iterable, Iterator, Sequence
 from dataclasses import dataclass, field, replace
 
-__all__ = ["Cover", "Cube", "SharpTooLarge", "complement", "cube_list_contains", "cubes_intersect", "drop_inputs", "sharp"]
+__all__ = [
+    "Cover",
+    "Cube",
+    "SharpTooLarge",
+    "complement",
+    "cube_list_contains",
+    "cut_by_complement",
+    "drop_inputs",
+    "merge_identical",
+    "sharp",
+]
 
 
 @dataclass(frozen=True, slots=True, order=True)
@@ -87,10 +97,6 @@ class Cube:
         """Number of inputs tested."""
         return self.care.bit_count()
 
-    def size_log2(self, n: int) -> int:
-        """log2 of the number of points the cube holds over ``n`` inputs."""
-        return n - self.literals
-
     def contains_point(self, p: int) -> bool:
         return p & self.care == self.value
 
@@ -146,15 +152,6 @@ class Cube:
                 if k >> b & 1:
                     p |= 1 << i
             yield p
-
-
-def cubes_intersect(a: Iterable[Cube], b: Sequence[Cube]) -> tuple[Cube, Cube] | None:
-    """First pair (x from ``a``, y from ``b``) whose input parts share a point, or ``None``."""
-    for x in a:
-        for y in b:
-            if x.intersects(y):
-                return x, y
-    return None
 
 
 def drop_inputs(cubes: Iterable[Cube], mask: int) -> list[Cube]:
@@ -236,26 +233,65 @@ class SharpTooLarge(Exception):
     """Raised by :func:`sharp` when the result would exceed its ``limit`` of cubes."""
 
 
-def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int | None = None, limit: int | None = None) -> list[Cube]:
-    """Points of ``a`` not in any cube of ``b``, as cubes (feeding ``outputs``, or each ``a`` cube's own).
+def sharp(a: Iterable[Cube], b: Sequence[Cube], *, limit: int | None = None) -> list[Cube]:
+    """Points of ``a`` not in any cube of ``b``, as cubes; each piece feeds the outputs of the ``a`` cube it came from.
 
     Works cube by cube: only the cubes of ``b`` that touch ``x`` are cofactored by ``x`` and complemented, so the
     cost follows local overlap, never the size of all of ``b`` or 2**n. Heavily overlapping random cubes over many
-    inputs can still need very many pieces: past ``limit`` pieces it raises :class:`SharpTooLarge`.
+    inputs can still need very many pieces: with a ``limit`` (none by default), more pieces than that raise
+    :class:`SharpTooLarge`.
     """
     out: list[Cube] = []
     for x in a:
-        outs = x.outputs if outputs is None else outputs
         touching = [y for y in b if y.intersects(x)]
         if not touching:
-            out.append(Cube(x.care, x.value, outs))
+            out.append(x)
             continue
         cof = [Cube(y.care & ~x.care, y.value & ~x.care) for y in touching]
         for z in _complement(cof):
-            out.append(Cube(z.care | x.care, z.value | x.value, outs))
+            out.append(Cube(z.care | x.care, z.value | x.value, x.outputs))
         if limit is not None and len(out) > limit:
             raise SharpTooLarge(f"more than {limit} cubes")
     return list(dict.fromkeys(out))
+
+
+#: Most pieces :func:`cut_by_complement` may produce before it gives up.
+CUT_LIMIT = 20000
+#: Most cubes of ``b`` :func:`cut_by_complement` complements as a whole.
+CUT_DC_LIMIT = 64
+
+
+def cut_by_complement(a: Sequence[Cube], b: Sequence[Cube], outputs: int) -> tuple[Cube, ...] | None:
+    """The same points as :func:`sharp` (``a`` minus ``b``), cut differently: each cube of ``a`` intersected with
+    each cube of the complement of all of ``b``; the pieces feed ``outputs``.
+
+    The pieces follow the cubes of ``¬b`` rather than each cube's local overlap, which suits a minimizer better
+    (see :meth:`plaforge.core.table.Table.on_pieces`). ``None`` when ``b`` has more than :data:`CUT_DC_LIMIT` cubes
+    or the pieces could exceed :data:`CUT_LIMIT` (the product of the two list sizes bounds them).
+    """
+    if not any(x.intersects(y) for x in a for y in b):
+        return tuple(c.with_outputs(outputs) for c in a)
+    if len(b) > CUT_DC_LIMIT:  # the complement of many scattered cubes over many inputs can itself explode
+        return None
+    comp = complement(list(b))
+    if len(comp) * len(a) > CUT_LIMIT:
+        return None
+    out = []
+    for x in a:
+        for y in comp:
+            z = x.intersect(y)
+            if z is not None:
+                out.append(Cube(z.care, z.value, outputs))
+    return tuple(dict.fromkeys(out))
+
+
+def merge_identical(cubes: Iterable[Cube]) -> list[Cube]:
+    """One cube per distinct input part, feeding the union of the outputs (first-seen order; no-output cubes go)."""
+    merged: dict[tuple[int, int], int] = {}
+    for c in cubes:
+        key = (c.care, c.value)
+        merged[key] = merged.get(key, 0) | c.outputs
+    return [Cube(care, value, out) for (care, value), out in merged.items() if out]
 
 
 def cube_list_contains(cubes: Sequence[Cube], cube: Cube) -> bool:

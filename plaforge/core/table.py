@@ -4,7 +4,7 @@ Vocabulary
 ----------
 ON / DC / OFF set
     For each output, the points where it must be 1, may be anything (don't-care), or must be 0. The three sets
-    partition the 2**n points. Each is held as a list of cubes (see :mod:`plaforge.cube`); at most one of the three
+    partition the 2**n points. Each is held as a list of cubes (see :mod:`plaforge.core.cube`); at most one of the three
     may be left implicit ("the rest"), and is computed on demand as the complement of the other two, so a table
     described by a few range cubes over 32 inputs never enumerates anything.
 bit-parallel truth table
@@ -25,12 +25,13 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .cube import Cube, SharpTooLarge, complement, drop_inputs, sharp
+from .cube import Cube, SharpTooLarge, complement, cut_by_complement, drop_inputs, merge_identical, sharp
 from .errors import EnumerationLimit, SizeLimit
 
 __all__ = [
     "DEFAULT_ENUM_LIMIT",
     "Bus",
+    "FunctionSets",
     "Table",
     "bool_array_to_cubes",
     "cube_bits",
@@ -171,9 +172,6 @@ class Table:
     def n_outputs(self) -> int:
         return len(self.output_names)
 
-    def output_index(self, name: str) -> int:
-        return self.output_names.index(name)
-
     # -- the three sets as cubes ---------------------------------------------------------------------------------
     def _set(self, j: int, kind: int) -> tuple[Cube, ...]:
         """Set ``kind`` (0 ON, 1 DC, 2 OFF) of output ``j``, computed only when asked for."""
@@ -195,7 +193,7 @@ class Table:
             dc = self.dc_cubes(j)
             if dc:
                 try:
-                    s = _sharp(s, dc)
+                    s = sharp(s, dc, limit=SHARP_LIMIT)
                 except SharpTooLarge:
                     raise SizeLimit(
                         f"{self.source or 'table'}: output {self.output_names[j]!r}: its "
@@ -219,6 +217,41 @@ class Table:
     def off_cubes(self, j: int) -> tuple[Cube, ...]:
         """Cubes covering exactly output ``j``'s OFF set."""
         return self._set(j, 2)
+
+    def on_pieces(self, j: int, complemented: bool = False) -> tuple[Cube, ...]:
+        """Output ``j``'s ON set (its OFF set when ``complemented``) as a minimizer is best fed it.
+
+        Where that set is given together with don't-cares, the given cubes are cut by the complement of the DC set
+        (:func:`plaforge.core.cube.cut_by_complement`): measured on the 40-input suite entry, the heuristic
+        minimizer runs about ten times faster from those pieces than from the same set trimmed cube by cube
+        (:meth:`on_cubes`), or from the untrimmed cubes. When the cut would give too many pieces the given cubes
+        come back as they are: they may then overlap the don't-cares, whose points stay don't-care. Otherwise this
+        is :meth:`on_cubes` (:meth:`off_cubes`).
+        """
+        key = ("pieces", j, complemented)
+        if key not in self._cache:
+            given = self.off[j] if complemented else self.on[j]
+            dc = self.dc_cubes(j)
+            if given is not None and dc:
+                cut = cut_by_complement(given, dc, 1 << j)
+                pieces = cut if cut is not None else tuple(c.with_outputs(1 << j) for c in given)
+            else:
+                pieces = self.off_cubes(j) if complemented else self.on_cubes(j)
+            self._cache[key] = pieces
+        return self._cache[key]
+
+    def cover_sets(self, inverted: int = 0) -> FunctionSets:
+        """The sets a cover of this table must realize, outputs in ``inverted`` complemented (computed once).
+
+        ``on[j]`` is :meth:`on_pieces` (complemented for the outputs in ``inverted``), ``dc[j]`` is :meth:`dc_cubes`.
+        """
+        key = ("cover sets", inverted)
+        if key not in self._cache:
+            m = self.n_outputs
+            on = tuple(self.on_pieces(j, bool(inverted >> j & 1)) for j in range(m))
+            dc = tuple(self.dc_cubes(j) for j in range(m))
+            self._cache[key] = FunctionSets(self.n_inputs, m, on, dc, inverted)
+        return self._cache[key]
 
     def evaluate(self, point: int) -> tuple[int, int]:
         """``(on_mask, dc_mask)`` over outputs at one point (cube look-ups; no enumeration)."""
@@ -317,6 +350,78 @@ class Table:
         return t
 
 
+@dataclass(frozen=True, eq=False)
+class FunctionSets:
+    """ON and DC cubes per output of a function a cover must realize, and the views of them minimizers use.
+
+    ``on[j]`` / ``dc[j]`` hold cubes with ``outputs == 1 << j``; points in both are don't-care. Built by
+    :meth:`Table.cover_sets` (where output ``j`` in ``inverted`` has the Table's OFF set as ``on[j]``) or directly
+    for a derived function. The views below are computed on first use and kept.
+    """
+
+    n: int
+    m: int
+    on: tuple[tuple[Cube, ...], ...]
+    dc: tuple[tuple[Cube, ...], ...]
+    inverted: int = 0
+
+    @functools.cached_property
+    def joint_on(self) -> tuple[Cube, ...]:
+        """The ON cubes of all outputs with identical input parts merged into one multi-output cube."""
+        return tuple(merge_identical(c.with_outputs(1 << j) for j in range(self.m) for c in self.on[j]))
+
+    @functools.cached_property
+    def joint_dc(self) -> tuple[Cube, ...]:
+        """The DC cubes of all outputs with identical input parts merged into one multi-output cube."""
+        return tuple(merge_identical(c.with_outputs(1 << j) for j in range(self.m) for c in self.dc[j]))
+
+    @functools.cached_property
+    def bits(self) -> tuple[tuple[np.ndarray, np.ndarray], ...]:
+        """``(on_bits, dc_bits)`` per output as packed bit arrays (see module docs); ON points exclude DC points.
+
+        Raises :class:`plaforge.core.errors.EnumerationLimit` above :data:`DEFAULT_ENUM_LIMIT` inputs.
+        """
+        if self.n > DEFAULT_ENUM_LIMIT:
+            raise EnumerationLimit(
+                f"the point sets of a {self.n}-input function enumerate 2^{self.n} points, above the enumeration "
+                f"limit of {DEFAULT_ENUM_LIMIT} inputs"
+            )
+        out = []
+        for j in range(self.m):
+            dc = cubes_bits(self.dc[j], self.n)
+            out.append((cubes_bits(self.on[j], self.n) & ~dc, dc))
+        return tuple(out)
+
+    def point_arrays(self) -> tuple[list[np.ndarray], list[np.ndarray]]:
+        """``(on, dc)``: per output a boolean array over the 2**n points (unpacked from :attr:`bits`)."""
+        return ([unpack_bits(on, self.n) for on, _ in self.bits], [unpack_bits(dc, self.n) for _, dc in self.bits])
+
+    @functools.cached_property
+    def regions(self) -> tuple[tuple[int, int, tuple[Cube, ...]], ...]:
+        """The regions where the output signature is constant, as ``(on_mask, dc_mask, cubes)``.
+
+        ``on_mask`` / ``dc_mask`` say which outputs are ON / don't-care on every point of ``cubes`` (cubes feeding
+        output 0, to be re-tagged); regions where both masks are 0 are left out. In order of the signature
+        ``(on_mask, dc_mask)``. At most 64 outputs.
+        """
+        if self.m > 64:
+            raise ValueError(f"signature regions need at most 64 outputs, not {self.m}")
+        on_sig = np.zeros(1 << self.n, dtype=np.uint64)
+        dc_sig = np.zeros(1 << self.n, dtype=np.uint64)
+        on, dc = self.point_arrays()
+        for j in range(self.m):
+            bit = np.uint64(1 << j)
+            on_sig[on[j]] |= bit
+            dc_sig[dc[j]] |= bit
+        uniq, inverse = np.unique(np.stack([on_sig, dc_sig], axis=1), axis=0, return_inverse=True)
+        inverse = inverse.reshape(-1)
+        return tuple(
+            (on_m, dc_m, tuple(bool_array_to_cubes(inverse == k, self.n)))
+            for k, (on_m, dc_m) in enumerate(uniq.tolist())
+            if on_m or dc_m
+        )
+
+
 # ---------------------------------------------------------------------------------------------------------------
 def _lists_intersect(a: Sequence[Cube], b: Sequence[Cube]) -> bool:
     for x in a:
@@ -328,11 +433,6 @@ def _lists_intersect(a: Sequence[Cube], b: Sequence[Cube]) -> bool:
 
 #: Most cubes a set trimmed by its don't-cares may take before the Table refuses (see ``Table._set``).
 SHARP_LIMIT = 200_000
-
-
-def _sharp(a: Sequence[Cube], b: Sequence[Cube]) -> tuple[Cube, ...]:
-    """Points of ``a`` not in ``b``, as cubes (at most :data:`SHARP_LIMIT` of them)."""
-    return tuple(sharp(a, b, limit=SHARP_LIMIT))
 
 
 def bool_array_to_cubes(v: np.ndarray, n: int, outputs: int = 1) -> list[Cube]:
