@@ -9,11 +9,11 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from pyeda.inter import Majority, Xor, exprvar
 
-from plaforge.core.cube import Cover, Cube, cube_list_contains
+from plaforge.core.cube import Cover, Cube, cube_list_contains, sharp
 from plaforge.core.errors import SpecError
-from plaforge.formats._cubes import find_overlap, range_cubes, sharp
-from plaforge.formats.pla import parse_cover, parse_pla, read_cover, read_pla, write_pla, write_table_pla
 from plaforge.core.table import Table, popcount_bits
+from plaforge.formats._cubes import find_overlap, range_cubes
+from plaforge.formats.pla import parse_cover, parse_pla, read_cover, read_pla, write_pla, write_table_pla
 
 # Full adder truth table (common practice): s = a xor b xor cin, cout = majority(a, b, cin).
 # Written by hand as a type-fd PLA with shared don't-care-free rows; cout uses three 2-literal terms.

@@ -1,4 +1,4 @@
-"""Cube-set helpers shared by the readers: ranges and patterns as cubes, sharp, and overlap search.
+"""Cube-set helpers shared by the readers: ranges and patterns as cubes, and overlap search.
 
 Vocabulary
 ----------
@@ -9,17 +9,15 @@ range cubes
     The inclusive range ``lo..hi`` of a ``w``-bit field as at most ``2*w`` disjoint cubes: the classic prefix
     decomposition (each cube fixes a prefix of high bits and leaves the low bits free), so ranges over 32-bit
     addresses never enumerate their points.
-sharp
-    ``a # b``: the points of cube list ``a`` that no cube of ``b`` holds, as cubes. Computed per cube of ``a`` from
-    the complement of only those cubes of ``b`` that touch it, so disjoint lists cost one intersection test per pair.
+
+The readers take ``a # b`` (the points of ``a`` no cube of ``b`` holds) from :func:`plaforge.core.cube.sharp`.
 """
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Sequence
+from collections.abc import Sequence
 
 from ..core.cube import Cube
-from ..core.cube import sharp as _cube_sharp
 
 __all__ = [
     "and_lists",
@@ -27,7 +25,6 @@ __all__ = [
     "find_overlap",
     "place",
     "range_cubes",
-    "sharp",
 ]
 
 
@@ -79,11 +76,6 @@ def and_lists(a: Sequence[Cube], b: Sequence[Cube]) -> list[Cube]:
             if z is not None:
                 out.append(Cube(z.care, z.value, 1))
     return list(dict.fromkeys(out))
-
-
-def sharp(a: Iterable[Cube], b: Sequence[Cube], outputs: int = 1) -> list[Cube]:
-    """Points of ``a`` not in any cube of ``b``, as cubes feeding ``outputs`` (see :func:`plaforge.cube.sharp`)."""
-    return _cube_sharp(a, b, outputs)
 
 
 def find_overlap(

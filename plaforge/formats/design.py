@@ -66,10 +66,10 @@ from typing import Any
 
 import numpy as np
 
-from ..core.cube import Cube
+from ..core.cube import Cube, sharp
 from ..core.errors import SpecError
 from ..core.table import DEFAULT_ENUM_LIMIT, Bus, Table, bool_array_to_cubes
-from ._cubes import and_lists, field_cube, place, range_cubes, sharp
+from ._cubes import and_lists, field_cube, place, range_cubes
 from ._toml import Locator, load_toml
 from .expr import ExprError, Expression, compile_expr, evaluate
 

@@ -45,10 +45,10 @@ import os
 import re
 from dataclasses import dataclass, field
 
-from ..core.cube import Cover, Cube
+from ..core.cube import Cover, Cube, sharp
 from ..core.errors import SpecError
 from ..core.table import Table
-from ._cubes import find_overlap, sharp
+from ._cubes import find_overlap
 from ._files import read_text
 
 __all__ = [
@@ -342,8 +342,8 @@ def parse_pla(text: str, path: str) -> Table:
         elif t == "fr":
             s_on, s_dc, s_off = f, None, r
         else:  # fdr: explicit don't-cares win over ON/OFF rows; unmentioned points are don't-care
-            s_on = tuple(sharp(f, d, bit)) if d else f
-            s_off = tuple(sharp(r, d, bit)) if d else r
+            s_on = tuple(sharp(f, d)) if d else f
+            s_off = tuple(sharp(r, d)) if d else r
             s_dc = None
         if pf.phase >> j & 1:
             s_on, s_off = s_off, s_on
