@@ -28,10 +28,10 @@ from dataclasses import dataclass
 
 from benchmarks.suite import SUITE, machine
 from plaforge.core.cube import Cover, Cube
-from plaforge.core.errors import SolverFailure
-from plaforge.minimize import MinimizeOptions, minimize
-from plaforge.minimize.heuristic import verify_cover
+from plaforge.core.errors import InternalError
 from plaforge.core.table import Table, unpack_bits
+from plaforge.minimize import MinimizeOptions, minimize
+from plaforge.minimize.result import verify_cover
 
 ENUM_REFERENCE_LIMIT = 16
 
@@ -48,7 +48,7 @@ class Figure:
 def _checked(table: Table, cover: Cover) -> bool:
     try:
         verify_cover(table, cover, "benchmark")
-    except SolverFailure:
+    except InternalError:
         return False
     return True
 

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 import os
+import signal
 from pathlib import Path
 
 import numpy as np
@@ -13,9 +14,11 @@ from click.testing import CliRunner
 from plaforge.cli import cli
 from plaforge.core.cube import Cover, Cube
 from plaforge.core.errors import InternalError, SizeLimit, TimeLimit
-from plaforge.minimize import MinimizeOptions, cover_summary, minimize
-from plaforge.minimize.heuristic import decode_row, encode_cube, run_isolated, verify_cover
 from plaforge.core.table import Table
+from plaforge.minimize import MinimizeOptions, cover_summary, minimize
+from plaforge.minimize.child import run_isolated
+from plaforge.minimize.heuristic import decode_row, encode_cube
+from plaforge.minimize.result import verify_cover
 
 CONTRACT_KEYS = ["inputs", "outputs", "rows", "terms", "literals", "method", "optimal", "lower_bound", "seconds"]
 
@@ -51,6 +54,14 @@ def _raise() -> None:
     raise RuntimeError("boom")
 
 
+def _exhaust_memory() -> None:
+    raise MemoryError("cannot allocate")
+
+
+def _killed() -> None:
+    os.kill(os.getpid(), signal.SIGKILL)
+
+
 def test_positional_notation_round_trip() -> None:
     # pyeda's positional cube notation: 1 = complemented literal, 2 = true literal, 3 = absent (pyeda docs)
     c = Cube.parse("1-0")
@@ -58,19 +69,37 @@ def test_positional_notation_round_trip() -> None:
     assert decode_row((2, 3, 1), (1, 0)) == Cube(c.care, c.value, 1)
 
 
-def test_child_crash_becomes_solver_failure() -> None:
-    with pytest.raises(InternalError, match="crashed"):
+def test_child_crash_is_internal_error() -> None:
+    # exit status 4 for a crash of the compiled minimizer (docs/conventions.md)
+    with pytest.raises(InternalError, match="crashed") as info:
         run_isolated(_crash, (), 10, "the test minimizer")
+    assert info.value.exit_code == 4
 
 
-def test_child_timeout_becomes_solver_failure() -> None:
-    with pytest.raises(TimeLimit, match="did not finish"):
+def test_child_timeout_is_time_limit_naming_the_option() -> None:
+    # exit status 3, naming the option that raises the limit (docs/conventions.md)
+    with pytest.raises(TimeLimit, match="did not finish within 0.5 s; raise it with --time-limit") as info:
         run_isolated(_sleep, (), 0.5, "the test minimizer")
+    assert info.value.exit_code == 3
 
 
-def test_child_error_becomes_solver_failure() -> None:
-    with pytest.raises(InternalError, match="boom"):
+def test_child_error_is_internal_error() -> None:
+    with pytest.raises(InternalError, match="failed: RuntimeError: boom"):
         run_isolated(_raise, (), 10, "the test minimizer")
+
+
+def test_child_out_of_memory_is_size_limit_without_option() -> None:
+    # exit status 3 (docs/conventions.md); no option raises the memory of the machine, and the message says so
+    with pytest.raises(SizeLimit, match="ran out of memory .*no option raises this limit") as info:
+        run_isolated(_exhaust_memory, (), 10, "the test minimizer")
+    assert info.value.exit_code == 3 and info.value.option is None
+
+
+@pytest.mark.skipif(not hasattr(signal, "SIGKILL"), reason="no SIGKILL on this platform")
+def test_child_killed_by_the_kernel_is_size_limit() -> None:
+    # common practice: the Linux out-of-memory killer ends the process it picks with SIGKILL
+    with pytest.raises(SizeLimit, match="killed it with SIGKILL"):
+        run_isolated(_killed, (), 10, "the test minimizer")
 
 
 def test_wrong_cover_is_rejected() -> None:

@@ -6,8 +6,8 @@ import numpy as np
 import pytest
 
 from plaforge.core.cube import Cube
-from plaforge.minimize import MinimizeOptions, minimize
 from plaforge.core.table import Table
+from plaforge.minimize import MinimizeOptions, minimize
 from plaforge.verify.equivalence import check_cover
 
 EXACT = MinimizeOptions(exact=True, time_limit=30)
@@ -188,14 +188,14 @@ def test_phase_never_worse_and_verified(name: str) -> None:
 
 def test_prime_counts_match_counting_arguments() -> None:
     from benchmarks.suite import SUITE
-    from plaforge.minimize.exact import _point_sets, multi_output_primes
+    from plaforge.minimize.covering import multi_output_primes
 
     t = SUITE["sym9_3to6"]()
-    on, dc = _point_sets(t, 0)
+    on, dc = t.cover_sets().point_arrays()
     # counting argument: a prime of "3 to 6 of 9 inputs are 1" fixes exactly three 1s and three 0s: C(9,3)*C(6,3)
     assert len(multi_output_primes(on, dc, 9)) == 84 * 20
     fa = full_adder()
-    on, dc = _point_sets(fa, 0)
+    on, dc = fa.cover_sets().point_arrays()
     primes = multi_output_primes(on, dc, 3)
     # common practice (multi-output Quine-McCluskey on the full adder): the sum alone has the primes a'b'cin,
     # a'b cin', a b'cin'; the carry alone ab, a cin, b cin; and the minterm abc is a prime of both outputs together

@@ -4,15 +4,19 @@ Paths
 -----
 heuristic (default)
     The Espresso-II heuristic (pyeda's compiled minimizer) fed the Table's cubes, all outputs jointly; any width,
-    never enumerating. See :mod:`plaforge.minimize.heuristic`.
+    never enumerating. See :mod:`plaforge.minimize.heuristic` (and :mod:`plaforge.minimize.child`, which runs it in
+    a child process).
 exact
-    Multi-output prime implicants, a reduced covering problem and a CP-SAT model; proven minimum rows (then
-    literals) or, at the time limit, the best cover with a lower bound. See :mod:`plaforge.minimize.exact`.
+    Multi-output prime implicants, a reduced covering problem (:mod:`plaforge.minimize.covering`) and a CP-SAT
+    model, seeded with the heuristic's cover; proven minimum rows (then literals) or, at the time limit, the best
+    cover with a lower bound. See :mod:`plaforge.minimize.exact`.
 phase
     Output phase assignment: realize some outputs in complement when that lowers the cost. See
     :mod:`plaforge.minimize.phase`.
 
-Every cover returned has been re-verified against the Table (ON ⊆ cover ⊆ ON ∪ DC per output).
+Every cover returned has been re-verified against the Table (ON ⊆ cover ⊆ ON ∪ DC per output) by
+:mod:`plaforge.minimize.result`. The sets each path works on come from the Table itself
+(:meth:`plaforge.core.table.Table.cover_sets`), computed once per phase choice.
 """
 
 from __future__ import annotations
@@ -46,9 +50,11 @@ def minimize(table: Table, options: MinimizeOptions | None = None) -> Cover:
     Raises
     ------
     plaforge.core.errors.InternalError
-        The compiled minimizer crashed, timed out or returned a wrong cover.
-    plaforge.core.errors.LimitReached
-        ``exact`` on a table wider than ``options.exact_limit`` inputs.
+        The compiled minimizer crashed, or a path returned a wrong cover.
+    plaforge.core.errors.TimeLimit
+        The compiled minimizer did not finish within ``options.time_limit``.
+    plaforge.core.errors.SizeLimit
+        ``exact`` on a table wider than ``options.exact_limit`` inputs, or the compiled minimizer ran out of memory.
     """
     if not isinstance(table, Table):
         raise TypeError(f"minimize() needs a Table, not {type(table).__name__}")
@@ -61,12 +67,12 @@ def minimize(table: Table, options: MinimizeOptions | None = None) -> Cover:
         from .phase import assign_phases
 
         inverted = assign_phases(table, opts)
+    from .heuristic import heuristic_cubes, minimize_heuristic
+
     if opts.exact:
         from .exact import minimize_exact
 
-        cover = minimize_exact(table, opts, inverted)
+        cover = minimize_exact(table, opts, inverted, seed=heuristic_cubes)
     else:
-        from .heuristic import minimize_heuristic
-
         cover = minimize_heuristic(table, opts, inverted)
     return cover.with_(seconds=time.perf_counter() - t0)

@@ -20,7 +20,7 @@ class MinimizeOptions:
         Prove a minimum cover (multi-output primes + CP-SAT) instead of the heuristic.
     time_limit : float
         Wall-clock seconds the exact solver may spend (past it: best cover and best lower bound). Also the limit
-        after which a heuristic run is abandoned with :class:`plaforge.core.errors.InternalError`.
+        after which a heuristic run is abandoned with :class:`plaforge.core.errors.TimeLimit`.
     cost : {"shared", "per-output"}
         ``shared`` counts distinct product terms (PLA AND-plane rows), outputs share terms; ``per-output`` counts
         product terms output by output (no sharing: every output is minimized alone). Literals break ties.
@@ -29,7 +29,8 @@ class MinimizeOptions:
     progress : bool
         Show a progress display on stderr during exact runs (primes generated, bound closing).
     isolate : bool
-        Run the compiled heuristic in a child process, so a crash inside it becomes a clear error.
+        Run the compiled heuristic in a child process, so a crash inside it becomes a clear error (see
+        :mod:`plaforge.minimize.child`).
     exact_limit : int
         Most inputs the exact path accepts (it enumerates the 3**n cubes).
     """

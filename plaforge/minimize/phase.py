@@ -24,17 +24,17 @@ from __future__ import annotations
 import time
 
 from ..core.cube import Cube
-from ..core.table import Table
-from .heuristic import FunctionSets, cover_cubes, table_sets
+from ..core.table import FunctionSets, Table
+from .heuristic import heuristic_cubes
 from .options import MinimizeOptions
+from .result import term_count
 
 __all__ = ["assign_phases", "phase_cost"]
 
 
 def phase_cost(cubes: list[Cube], per_output: bool) -> tuple[int, int]:
     """(rows or per-output terms, literals) of a cover given as cubes."""
-    count = sum(c.outputs.bit_count() for c in cubes) if per_output else len(cubes)
-    return count, sum(c.literals for c in cubes)
+    return term_count(cubes, per_output), sum(c.literals for c in cubes)
 
 
 def _double_phase(table: Table) -> FunctionSets:
@@ -61,11 +61,11 @@ def assign_phases(table: Table, options: MinimizeOptions) -> int:
     deadline = time.monotonic() + options.time_limit / 2
 
     def cost(inv: int) -> tuple[int, int]:
-        return phase_cost(cover_cubes(table_sets(table, inv), per_output, options), per_output)
+        return phase_cost(heuristic_cubes(table.cover_sets(inv), options), per_output)
 
     if per_output:
-        true_cubes = cover_cubes(table_sets(table, 0), True, options)
-        comp_cubes = cover_cubes(table_sets(table, (1 << m) - 1), True, options)
+        true_cubes = heuristic_cubes(table.cover_sets(0), options)
+        comp_cubes = heuristic_cubes(table.cover_sets((1 << m) - 1), options)
         inverted = 0
         for j in range(m):
             a = phase_cost([c for c in true_cubes if c.outputs >> j & 1], True)
@@ -78,7 +78,7 @@ def assign_phases(table: Table, options: MinimizeOptions) -> int:
     if m == 0:
         return 0
     # steps 1-2: choose on the double-phase cover
-    double = cover_cubes(_double_phase(table), False, options)
+    double = heuristic_cubes(_double_phase(table), options)
     inv, est = 0, _estimate(double, m, 0)
     while True:
         trials = [(_estimate(double, m, inv ^ (1 << j)), j) for j in range(m)]

@@ -12,7 +12,7 @@ __all__ = ["cover_summary", "format_summary"]
 def cover_summary(cover: Cover) -> dict[str, Any]:
     """The ``minimize --json`` object (docs/conventions.md): exactly the contract keys, in contract order.
 
-    >>> from plaforge.cube import Cover, Cube
+    >>> from plaforge.core.cube import Cover, Cube
     >>> s = cover_summary(Cover(("a", "b"), ("y",), (Cube.parse("11"),), method="heuristic"))
     >>> s["rows"], s["terms"], s["literals"]
     (1, {'y': 1}, 2)
