@@ -24,16 +24,17 @@ import os
 from pathlib import Path
 
 from .core.cube import Cover
-from .core.errors import CheckFailed, PlaforgeError
+from .core.errors import ArtifactError
 from .core.network import LutNetwork
+from .core.serial import artifact_from_lines
 from .core.table import DEFAULT_ENUM_LIMIT, Table
+from .formats.pla import read_cover
+from .verify.component import instantiate, load_module
 from .verify.equivalence import OutputVerdict, Verdict, check_cover, check_network
 from .verify.sat import sat_check_cover, sat_check_network
-from .verify.simulate import DEFAULT_SAMPLES, check_component, component_class, load_module
+from .verify.simulate import DEFAULT_SAMPLES, check_component
 
-__all__ = ["ARTIFACT_SUFFIXES", "check_artifact", "prove"]
-
-ARTIFACT_SUFFIXES = (".pla", ".json", ".py")
+__all__ = ["check_artifact", "prove"]
 
 
 def prove(table: Table, artifact: Cover | LutNetwork, *, enum_limit: int = DEFAULT_ENUM_LIMIT,
@@ -52,26 +53,27 @@ def _read_network(p: Path) -> LutNetwork:
     try:
         obj = json.loads(p.read_text(encoding="utf-8"))
     except FileNotFoundError:
-        raise PlaforgeError(f"{p}: no such file") from None
+        raise ArtifactError(f"{p}: no such file") from None
     except (OSError, UnicodeDecodeError) as exc:
-        raise PlaforgeError(f"{p}: cannot read: {exc}") from None
+        raise ArtifactError(f"{p}: cannot read: {exc}") from None
     except json.JSONDecodeError as exc:
-        raise PlaforgeError(f"{p}:{exc.lineno}:{exc.colno}: not JSON ({exc.msg}); expected a LUT network") from None
+        raise ArtifactError(f"{p}:{exc.lineno}:{exc.colno}: not JSON ({exc.msg}); expected a LUT network") from None
     try:
         return LutNetwork.from_json_obj(obj)
     except (KeyError, ValueError, TypeError, AttributeError) as exc:
-        raise PlaforgeError(
+        raise ArtifactError(
             f"{p}: not a LUT network ({type(exc).__name__}: {exc}); expected keys k, inputs, outputs, luts"
         ) from None
 
 
-def _combine(sim: Verdict, proof: Verdict | None, artifact: str) -> Verdict:
+def _combine(sim: Verdict, proof: Verdict | None, artifact: str, what: str) -> Verdict:
+    """Per output, the simulation's verdict and the proof's of the data the module carries (``what``) together."""
     if proof is None:
         return Verdict(artifact, sim.outputs)
     out = []
     for s, p in zip(sim.outputs, proof.outputs):
         failure = s.failure if s.failure is not None else p.failure
-        method = f"{s.method}; embedded {proof.artifact}: {p.method}"
+        method = f"{s.method}; {what}: {p.method}"
         out.append(OutputVerdict(s.name, s.passed and p.passed, s.vectors, method, failure))
     return Verdict(artifact, tuple(out))
 
@@ -107,39 +109,27 @@ def check_artifact(
 
     Raises
     ------
-    PlaforgeError
-        Unknown suffix, unreadable or malformed file (exit status 2).
-    CheckFailed
-        The artifact's names or ports do not match the spec (exit status 1).
+    ArtifactError
+        Unknown suffix; a file that is unreadable or malformed, or a module that fails to import, build or elaborate;
+        an artifact whose names or ports are not the spec's (exit status 2).
     """
     p = Path(path)
     suffix = p.suffix.lower()
     name = p.name
     if suffix == ".pla":
-        from .formats.pla import read_cover
-
         return prove(table, read_cover(p), enum_limit=enum_limit, name=name)
     if suffix == ".json":
         return prove(table, _read_network(p), enum_limit=enum_limit, name=name)
     if suffix == ".py":
-        from .emit.amaranth import embedded_artifact
-
         mod = load_module(p)
-        cls = component_class(mod, str(p))
-        try:
-            component = cls()
-        except Exception as exc:  # noqa: BLE001 - a user's class can raise anything
-            raise PlaforgeError(f"{p}: {cls.__name__}() failed: {type(exc).__name__}: {exc}") from None
+        component = instantiate(mod, str(p))
         sim = check_component(table, component, exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,
                               artifact=name)
         data = getattr(mod, "PLAFORGE_ARTIFACT", None)
-        proof = None
-        if data is not None:
-            embedded = embedded_artifact(data)
-            what = "cover" if isinstance(embedded, Cover) else "LUT network"
-            try:
-                proof = prove(table, embedded, enum_limit=enum_limit, name=what)
-            except CheckFailed as exc:
-                raise CheckFailed(f"{p}: the PLAFORGE_ARTIFACT data does not fit the spec: {exc}") from None
-        return _combine(sim, proof, name)
-    raise PlaforgeError(f"{p}: unknown artifact type {p.suffix!r}; expected a .pla cover, a LUT .json or a module .py")
+        if data is None:
+            return _combine(sim, None, name, "")
+        embedded = artifact_from_lines(data)
+        what = "embedded cover" if isinstance(embedded, Cover) else "embedded LUT network"
+        proof = prove(table, embedded, enum_limit=enum_limit, name=f"{p}: the {what}")
+        return _combine(sim, proof, name, what)
+    raise ArtifactError(f"{p}: unknown artifact type {p.suffix!r}; expected a .pla cover, a LUT .json or a module .py")

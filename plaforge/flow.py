@@ -1,23 +1,81 @@
 """The whole path for one spec: minimize, map to LUTs, emit, and check every artifact against the Table.
 
-``build(table, out_dir, options)`` is what ``plaforge build`` and ``plaforge demo`` run. Every artifact is written
-atomically, then checked by the verifier, which trusts nothing but the Table. A budget (rows of a PLA device, LUTs of
+``realize(table, style)`` is the one place where a style becomes a producer: ``sop`` is the minimized cover, ``lut``
+that cover mapped onto k-input LUTs. ``build(table, out_dir, options)`` is what ``plaforge build`` and ``plaforge
+demo`` run; ``plaforge module`` realizes one style. Every artifact is written atomically, then checked by the
+verifier, which trusts nothing but the Table. A budget (rows of a PLA device, LUTs of
 a fabric region) turns into a fit verdict; a result that does not fit is reported, not hidden.
 """
 
 from __future__ import annotations
 
 import hashlib
-import re
+import os
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from .checking import check_artifact
 from .core.cube import Cover
 from .core.fileio import write_text_atomic
+from .core.names import identifier
 from .core.network import LutNetwork
 from .core.table import Table
+from .emit.amaranth import module_source
+from .emit.harness import harness_source
+from .emit.verilog import verilog_source
+from .formats.pla import write_pla
+from .lut import LutOptions, map_luts
+from .minimize import MinimizeOptions, minimize
 
-__all__ = ["BuildOptions", "BuildResult", "build"]
+__all__ = ["STYLES", "BuildOptions", "BuildResult", "build", "realize", "spec_digest"]
+
+STYLES = ("sop", "lut")
+"""What :func:`realize` can make: ``sop`` a minimized cover, ``lut`` a k-input LUT network."""
+
+
+def realize(
+    table: Table,
+    style: str,
+    *,
+    cover: Cover | None = None,
+    k: int = 6,
+    minimize_options: MinimizeOptions | None = None,
+    lut_options: LutOptions | None = None,
+) -> Cover | LutNetwork:
+    """The artifact realizing ``table`` in ``style``.
+
+    Parameters
+    ----------
+    table : Table
+    style : str
+        ``"sop"``: the cover, minimized with ``minimize_options``. ``"lut"``: that cover mapped onto ``k``-input
+        LUTs with ``lut_options``.
+    cover : Cover, optional
+        A cover of ``table`` already made (by an earlier call, say); used instead of minimizing again.
+    k : int
+        LUT size for ``"lut"``.
+
+    Returns
+    -------
+    Cover or LutNetwork
+
+    Raises
+    ------
+    ValueError
+        If ``style`` is not one of :data:`STYLES`.
+    """
+    if style not in STYLES:
+        raise ValueError(f"style must be one of {STYLES}, not {style!r}")
+    if cover is None:
+        cover = minimize(table, minimize_options)
+    if style == "sop":
+        return cover
+    return map_luts(table, cover, k, lut_options)
+
+
+def spec_digest(path: str | os.PathLike[str]) -> str:
+    """SHA-256 hex digest of the spec file's bytes, as generated modules quote it."""
+    return hashlib.sha256(Path(path).read_bytes()).hexdigest()
 
 
 @dataclass(frozen=True)
@@ -97,9 +155,7 @@ class BuildResult:
 
 
 def _stem(table: Table) -> str:
-    base = Path(table.source).stem if table.source else "design"
-    s = re.sub(r"[^0-9A-Za-z_]", "_", base)
-    return s if s and not s[0].isdigit() else f"d_{s}"
+    return identifier(Path(table.source).stem if table.source else "design")
 
 
 def build(
@@ -109,27 +165,19 @@ def build(
 
     ``spec_path``, when given, is the spec file whose SHA-256 the generated modules quote.
     """
-    from .emit.amaranth import module_source
-    from .emit.harness import harness_source
-    from .formats.pla import write_pla
-    from .lut import map_luts
-    from .minimize import MinimizeOptions, minimize
-    from .checking import check_artifact
-
     opts = options or BuildOptions()
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
     stem = _stem(table)
     source_name = Path(table.source).name if table.source else ""
-    digest = ""
-    if spec_path is not None and Path(spec_path).is_file():
-        digest = hashlib.sha256(Path(spec_path).read_bytes()).hexdigest()
+    digest = spec_digest(spec_path) if spec_path is not None and Path(spec_path).is_file() else ""
 
-    cover = minimize(table, MinimizeOptions(exact=opts.exact, cost=opts.cost, time_limit=opts.time_limit))
+    minimize_options = MinimizeOptions(exact=opts.exact, cost=opts.cost, time_limit=opts.time_limit)
+    cover = realize(table, "sop", minimize_options=minimize_options)
     res = BuildResult(table, cover, None)
     res.artifacts["cover"] = write_text_atomic(out / f"{stem}.pla", write_pla(cover, source_name or None))
 
-    net = map_luts(table, opts.k)
+    net = realize(table, "lut", cover=cover, k=opts.k)
     res.network = net
     res.artifacts["luts"] = write_text_atomic(out / f"{stem}.luts.json", net.to_json())
 
@@ -141,14 +189,14 @@ def build(
         out / f"test_{stem}.py", harness_source(table, f"{stem}_sop", source_name=source_name)
     )
     if opts.verilog:
-        from .emit.verilog import verilog_source
-
         res.artifacts["verilog"] = write_text_atomic(out / f"{stem}.v", verilog_source(sop_src, stem))
 
     for key in ("cover", "luts", "module_sop", "module_lut"):
         res.verdicts[key] = check_artifact(table, res.artifacts[key])
 
-    res.notes.append(f"keep the standalone harness in your own tests; it runs with: python -m pytest {res.artifacts['harness']}")
+    res.notes.append(
+        f"keep the standalone harness in your own tests; it runs with: python -m pytest {res.artifacts['harness']}"
+    )
     if opts.budget_rows is not None:
         res.fit["rows"] = {"budget": opts.budget_rows, "used": cover.rows, "fits": cover.rows <= opts.budget_rows}
     if opts.budget_luts is not None:

@@ -16,9 +16,9 @@ from pathlib import Path
 import pytest
 
 from plaforge.core.cube import Cover, Cube
+from plaforge.core.table import Table
 from plaforge.emit.amaranth import module_source
 from plaforge.emit.harness import harness_source
-from plaforge.core.table import Table
 
 
 def _table() -> Table:

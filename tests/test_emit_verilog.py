@@ -15,10 +15,11 @@ import numpy as np
 import pytest
 
 from plaforge.core.cube import Cover, Cube
-from plaforge.emit.amaranth import build_component, module_source, ports_of
-from plaforge.emit.verilog import verilog_name, verilog_source
+from plaforge.core.names import ports_of
 from plaforge.core.network import Lut, LutNetwork
 from plaforge.core.table import Table, unpack_bits
+from plaforge.emit.amaranth import build_component, module_source
+from plaforge.emit.verilog import verilog_name, verilog_source
 
 HAVE_IVERILOG = shutil.which("iverilog") is not None and shutil.which("vvp") is not None
 needs_iverilog = pytest.mark.skipif(
@@ -123,7 +124,8 @@ def test_verilog_is_deterministic_and_names_ports() -> None:
     for port in ("x", "mode", "wire_", "y", "flag"):
         assert port in a
     assert "src =" not in a  # no file locations: bytes do not depend on where files live
-    assert verilog_name("7-seg") == "m_7_seg"
+    assert verilog_name("7-seg") == "p_7_seg"  # the one prefix before a leading digit
+    assert verilog_name("module") == "module_"  # a Verilog keyword (IEEE 1364 reserved word; from memory)
 
 
 @needs_iverilog

@@ -21,8 +21,8 @@ def check_cmd(spec: str, artifact: str, exhaustive_limit: int, samples: int, see
 
     Exit status 0 when every output passes, 1 when one fails, 2 on bad input.
     """
-    from ..formats import read_spec
     from ..checking import check_artifact
+    from ..formats import read_spec
     from ..verify.report import format_verdict
 
     table = read_spec(spec)

@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-import hashlib
 from pathlib import Path
 
 import click
 
 from ..core.errors import PlaforgeError
+from ..flow import STYLES
 from .group import cli
 
 
@@ -16,7 +16,7 @@ from .group import cli
 @click.option("-o", "--output", "out", type=click.Path(dir_okay=False),
               help="Write the Amaranth module here (default: print it).")
 @click.option("--verilog", "verilog", type=click.Path(dir_okay=False), help="Also write Verilog here.")
-@click.option("--style", type=click.Choice(["sop", "lut"]), default="sop", show_default=True,
+@click.option("--style", type=click.Choice(STYLES), default="sop", show_default=True,
               help="sop: shared product terms; lut: one constant per LUT.")
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT size for --style lut.")
 @click.option("--harness", "harness", type=click.Path(dir_okay=False),
@@ -24,8 +24,9 @@ from .group import cli
                    "both files in one directory).")
 def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, harness: str | None) -> None:
     """Generate an Amaranth component implementing SPEC."""
-    from ..emit.amaranth import module_source
     from ..core.fileio import write_text_atomic
+    from ..emit.amaranth import module_source
+    from ..flow import realize, spec_digest
     from ..formats import read_spec
 
     if harness is not None and out is None:
@@ -33,16 +34,8 @@ def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: i
     if out is not None and not out.endswith(".py"):
         raise PlaforgeError(f"module file {out!r} must end in .py so it can be imported")
     table = read_spec(spec)
-    if style == "sop":
-        from ..minimize import minimize
-
-        artifact = minimize(table)
-    else:
-        from ..lut import map_luts
-
-        artifact = map_luts(table, k)
-    digest = hashlib.sha256(Path(spec).read_bytes()).hexdigest()
-    source = module_source(table, artifact, source_name=Path(spec).name, source_digest=digest)
+    artifact = realize(table, style, k=k)
+    source = module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec))
     if out is None:
         click.echo(source, nl=False)
     else:

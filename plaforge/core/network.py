@@ -112,7 +112,44 @@ class LutNetwork:
 
     @classmethod
     def from_json_obj(cls, obj: dict) -> LutNetwork:
-        """Inverse of :meth:`to_json_obj` (raises ``KeyError``/``ValueError`` on a malformed object)."""
+        """Inverse of :meth:`to_json_obj`, checking that the network is one.
+
+        Raises
+        ------
+        KeyError, ValueError, TypeError
+            On a malformed object: a missing key, an INIT that is not hex or does not fit its fan-ins, a LUT wider
+            than ``k``, a name used twice, or a fan-in or driver that is neither an input, a constant nor an
+            earlier LUT (which also rules out loops).
+        """
         luts = tuple(Lut(d["name"], tuple(d["inputs"]), int(d["init"], 16)) for d in obj["luts"])
         outs = obj["outputs"]
-        return cls(int(obj["k"]), tuple(obj["inputs"]), tuple(outs), luts, tuple(outs[o] for o in outs))
+        net = cls(int(obj["k"]), tuple(obj["inputs"]), tuple(outs), luts, tuple(outs[o] for o in outs))
+        net.check_structure()
+        return net
+
+    def check_structure(self) -> None:
+        """Check that every LUT fits ``k`` and reads only inputs, constants and earlier LUTs.
+
+        Raises
+        ------
+        ValueError
+            Naming the first LUT or output that breaks the rule and what it refers to.
+        """
+        known = {"0", "1", *self.input_names}
+        if len(known) != len(self.input_names) + 2:
+            raise ValueError(f"input names {list(self.input_names)} repeat a name or use the constant '0' or '1'")
+        for lut in self.luts:
+            if len(lut.inputs) > self.k:
+                raise ValueError(f"LUT {lut.name!r} has {len(lut.inputs)} fan-ins; k is {self.k}")
+            for x in lut.inputs:
+                if x not in known:
+                    raise ValueError(
+                        f"LUT {lut.name!r} reads {x!r}, which is neither an input, '0', '1' nor an earlier LUT "
+                        "(a loop, or a missing LUT)"
+                    )
+            if lut.name in known:
+                raise ValueError(f"LUT name {lut.name!r} is used twice (or is an input's name)")
+            known.add(lut.name)
+        for o, d in zip(self.output_names, self.drivers):
+            if d not in known:
+                raise ValueError(f"output {o!r} is driven by {d!r}, which is neither an input, '0', '1' nor a LUT")

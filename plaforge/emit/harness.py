@@ -8,22 +8,28 @@ Data it carries:
 
 * up to ``limit`` inputs (default 16): the whole truth table, per output its ON bitmap then its don't-care bitmap
   (``2**n`` bits each, bit ``p`` is point ``p``), zlib-compressed and base64-encoded; every point is driven;
-* above: the ON and don't-care cubes as rows (input part, output index, ``1`` or ``-``), and the vectors are the
-  corner cases (all zeros, all ones, walking ones and zeros, the extreme corners of every ON cube) plus a seeded
-  random sample (half uniform, half inside ON cubes): the same vectors as :mod:`plaforge.verify.simulate` drives.
+* above: the ON and don't-care cubes as rows (input part, output index, ``1`` or ``-``), and the vectors are
+  those of :func:`plaforge.verify.vectors.sample_points` (corner cases, then a seeded random sample), whose source
+  the file carries: the same vectors ``plaforge check`` drives.
 
-Don't-care points are never judged.
+The file finds the module's component with the source of :func:`plaforge.verify.component.component_class`. Don't-care
+points are never judged.
 """
 
 from __future__ import annotations
 
 import base64
+import inspect
 import zlib
 
 import numpy as np
 
+from ..core.names import ports_of
 from ..core.table import Table, unpack_bits
-from .amaranth import _pystr, _seq_lines, ports_of
+from ..verify.component import component_class
+from ..verify.simulate import DEFAULT_SAMPLES
+from ..verify.vectors import sample_points
+from .layout import py_string, seq_lines
 
 __all__ = ["HARNESS_LIMIT", "harness_source"]
 
@@ -42,7 +48,6 @@ from pathlib import Path
 
 import pytest
 from amaranth.hdl import Cat
-from amaranth.lib import wiring
 from amaranth.sim import Simulator
 
 MODULE_FILE = "@@MODULE@@.py"
@@ -56,21 +61,15 @@ OUT_PORTS = @@OUT_PORTS@@
 OUT_ORDER = @@OUT_ORDER@@
 @@DATA@@
 
+@@FINDER@@
+
+
 def _component():
     path = Path(__file__).with_name(MODULE_FILE)
     spec = importlib.util.spec_from_file_location("_checked_" + path.stem, path)
     mod = importlib.util.module_from_spec(spec)
     spec.loader.exec_module(mod)
-    found = [
-        v
-        for v in vars(mod).values()
-        if isinstance(v, type)
-        and issubclass(v, wiring.Component)
-        and v is not wiring.Component
-        and v.__module__ == mod.__name__
-    ]
-    assert len(found) == 1, f"{MODULE_FILE} defines {len(found)} components"
-    return found[0]()
+    return component_class(mod)()
 
 
 def _permute(value, order):
@@ -158,25 +157,13 @@ _EXPECT_CUBES = '''def _cubes():
     return out
 
 
+@@GENERATOR@@
+
+
 def _expected():
     cubes = _cubes()
-    full = (1 << N_INPUTS) - 1
-    pts = [0, full]
-    pts += [1 << i for i in range(N_INPUTS)]
-    pts += [full ^ (1 << i) for i in range(N_INPUTS)]
-    for care, value, _, kind in cubes:
-        if kind == "1":
-            pts += [value, value | (full & ~care)]
-    # half uniform, half inside ON cubes (so rarely cared-for outputs are exercised)
     inside = [(care, value) for care, value, _, kind in cubes if kind == "1"]
-    rng = random.Random(SEED)
-    for k in range(SAMPLES):
-        p = rng.getrandbits(N_INPUTS)
-        if k % 2 and inside:
-            care, value = inside[rng.randrange(len(inside))]
-            p = value | (p & full & ~care)
-        pts.append(p)
-    points = list(dict.fromkeys(pts))
+    points, _ = sample_points(N_INPUTS, inside, SAMPLES, SEED)
     on, dc = [], []
     for p in points:
         o = d = 0
@@ -193,7 +180,12 @@ def _expected():
 
 
 def _tuple(items: list[str]) -> str:
-    return "\n".join(_seq_lines("", items))
+    return "\n".join(seq_lines("", items))
+
+
+def _embedded(function: object) -> str:
+    """The source of one of plaforge's own functions, carried by the harness (one definition, by construction)."""
+    return inspect.getsource(function).rstrip()
 
 
 def harness_source(
@@ -202,7 +194,7 @@ def harness_source(
     *,
     source_name: str = "",
     limit: int = HARNESS_LIMIT,
-    samples: int = 4096,
+    samples: int = DEFAULT_SAMPLES,
     seed: int = 1,
 ) -> str:
     """The text of a pytest file checking the module ``module_stem + ".py"`` against ``table``.
@@ -239,15 +231,15 @@ def harness_source(
                 raw = np.packbits(unpack_bits(bits, n), bitorder="little").tobytes()
                 blob += raw[:size].ljust(size, b"\0")
         text = base64.b64encode(zlib.compress(blob, 9)).decode("ascii")
-        chunks = [_pystr(text[k : k + 76]) for k in range(0, len(text), 76)] or ['""']
+        chunks = [py_string(text[k : k + 76]) for k in range(0, len(text), 76)] or ['""']
         data = (
             "# Per output, its ON bitmap then its don't-care bitmap, 2**N_INPUTS bits each (bit p is\n"
             "# point p, input i being bit i of p), zlib-compressed and base64-encoded.\n"
-            + "\n".join(_seq_lines("TRUTH = ", chunks))
+            + "\n".join(seq_lines("TRUTH = ", chunks))
             + "\n"
         )
         expect = _EXPECT_TRUTH
-        imports = "import base64\nimport importlib.util\nimport zlib"
+        imports = "import base64\nimport importlib.util\nimport types\nimport zlib"
         vectors = f"all {1 << n} input points"
     else:
         rows = []
@@ -258,15 +250,16 @@ def harness_source(
             f"SAMPLES = {samples}\nSEED = {seed}\n"
             "# ON and don't-care cubes: input part (leftmost column is input 0), output index,\n"
             "# 1 for ON or - for don't-care. Every other point is OFF.\n"
-            + "\n".join(_seq_lines("ROWS = ", [_pystr(r) for r in rows]))
+            + "\n".join(seq_lines("ROWS = ", [py_string(r) for r in rows]))
             + "\n"
         )
-        expect = _EXPECT_CUBES
-        imports = "import importlib.util\nimport random"
+        expect = _EXPECT_CUBES.replace("@@GENERATOR@@", _embedded(sample_points))
+        imports = "import importlib.util\nimport types"
         vectors = f"corner cases and {samples} random points (seed {seed})"
     src = (source_name or table.source or "its spec").replace("\\", "/").replace('"', "'")
     out = _TEMPLATE
     for key, value in (
+        ("@@FINDER@@", _embedded(component_class)),
         ("@@DATA@@", data),
         ("@@EXPECT@@", expect),
         ("@@MODULE@@", module_stem),
@@ -274,10 +267,10 @@ def harness_source(
         ("@@VECTORS@@", vectors),
         ("@@IMPORTS@@", imports),
         ("@@N@@", str(n)),
-        ("@@OUTPUTS@@", _tuple([_pystr(o) for o in table.output_names])),
-        ("@@IN_PORTS@@", _tuple([_pystr(p.name) for p in in_ports])),
+        ("@@OUTPUTS@@", _tuple([py_string(o) for o in table.output_names])),
+        ("@@IN_PORTS@@", _tuple([py_string(p.name) for p in in_ports])),
         ("@@IN_ORDER@@", _tuple(in_order)),
-        ("@@OUT_PORTS@@", _tuple([_pystr(p.name) for p in out_ports])),
+        ("@@OUT_PORTS@@", _tuple([py_string(p.name) for p in out_ports])),
         ("@@OUT_ORDER@@", _tuple(out_order)),
     ):
         out = out.replace(key, value)

@@ -1,6 +1,6 @@
 """Checking artifacts against the source Table, output by output.
 
-The rule (docs/conventions.md): for every output, ON ⊆ artifact ⊆ ON ∪ DC. A check trusts nothing but the Table.
+The rule: for every output, ON ⊆ artifact ⊆ ON ∪ DC. A check trusts nothing but the Table.
 
 Bit-parallel path: both sides as packed truth tables (see :mod:`plaforge.table`); cost O(2**n / 64) word operations
 per cube or LUT, so a 20-input, 16-output cover checks in well under a second.
@@ -14,6 +14,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from ..core.cube import Cover
+from ..core.names import check_names
 from ..core.table import DEFAULT_ENUM_LIMIT, Table, _literal_bits, _valid_mask, cubes_bits
 
 if TYPE_CHECKING:  # annotations only: importing plaforge.lut here closes an import cycle through lut.verify_sat
@@ -101,19 +102,15 @@ def _judge(table: Table, j: int, got: np.ndarray, method: str) -> OutputVerdict:
     return OutputVerdict(table.output_names[j], False, care, method, (p, expected, 1 - expected))
 
 
-def _names_match(table: Table, inputs: tuple[str, ...], outputs: tuple[str, ...], what: str) -> None:
-    from ..core.errors import CheckFailed
-
-    if tuple(inputs) != table.input_names or tuple(outputs) != table.output_names:
-        raise CheckFailed(
-            f"{what} has inputs {list(inputs)} and outputs {list(outputs)}; the spec has inputs "
-            f"{list(table.input_names)} and outputs {list(table.output_names)}"
-        )
-
-
 def check_cover(table: Table, cover: Cover, limit: int = DEFAULT_ENUM_LIMIT, artifact: str = "cover") -> Verdict:
-    """Exhaustive bit-parallel check of a cover against a table (n up to ``limit``)."""
-    _names_match(table, cover.input_names, cover.output_names, artifact)
+    """Exhaustive bit-parallel check of a cover against a table (n up to ``limit``).
+
+    Raises
+    ------
+    ArtifactError
+        If the cover's names are not the table's (:func:`plaforge.core.names.check_names`).
+    """
+    check_names(table, cover.input_names, cover.output_names, artifact)
     table.check_enumerable(limit, "an exhaustive check")
     n = table.n_inputs
     res = tuple(_judge(table, j, cover_bits(cover, j, n), "exhaustive") for j in range(table.n_outputs))
@@ -122,8 +119,14 @@ def check_cover(table: Table, cover: Cover, limit: int = DEFAULT_ENUM_LIMIT, art
 
 def check_network(table: Table, net: LutNetwork, limit: int = DEFAULT_ENUM_LIMIT,
                   artifact: str = "LUT network") -> Verdict:
-    """Exhaustive bit-parallel check of a LUT network against a table (n up to ``limit``)."""
-    _names_match(table, net.input_names, net.output_names, artifact)
+    """Exhaustive bit-parallel check of a LUT network against a table (n up to ``limit``).
+
+    Raises
+    ------
+    ArtifactError
+        If the network's names are not the table's (:func:`plaforge.core.names.check_names`).
+    """
+    check_names(table, net.input_names, net.output_names, artifact)
     table.check_enumerable(limit, "an exhaustive check")
     got = network_bits(net, table.n_inputs)
     res = tuple(_judge(table, j, got[j], "exhaustive") for j in range(table.n_outputs))

@@ -24,9 +24,8 @@ and networks from this project's tables of 20 to 64 inputs prove in well under a
 
 from __future__ import annotations
 
-from collections.abc import Sequence
-
 from ..core.cube import Cover
+from ..core.names import check_names
 from ..core.network import LutNetwork
 from ..core.table import Table
 from .equivalence import OutputVerdict, Verdict
@@ -34,12 +33,6 @@ from .equivalence import OutputVerdict, Verdict
 __all__ = ["SAT_METHOD", "sat_check_cover", "sat_check_network"]
 
 SAT_METHOD = "SAT proof"
-
-
-def _names(table: Table, inputs: Sequence[str], outputs: Sequence[str], what: str) -> None:
-    from .equivalence import _names_match
-
-    _names_match(table, tuple(inputs), tuple(outputs), what)
 
 
 def sat_check_cover(table: Table, cover: Cover, artifact: str = "cover") -> Verdict:
@@ -53,7 +46,7 @@ def sat_check_cover(table: Table, cover: Cover, artifact: str = "cover") -> Verd
     """
     from ..verify.satcnf import PointCnf, region  # lazy: plaforge.lut imports plaforge.verify
 
-    _names(table, cover.input_names, cover.output_names, artifact)
+    check_names(table, cover.input_names, cover.output_names, artifact)
     res = []
     for j, name in enumerate(table.output_names):
         mine = cover.cubes_for(j)
@@ -81,7 +74,7 @@ def sat_check_network(table: Table, net: LutNetwork, artifact: str = "LUT networ
     """
     from ..verify.satcnf import check_network_sat  # lazy: plaforge.lut imports plaforge.verify
 
-    _names(table, net.input_names, net.output_names, artifact)
+    check_names(table, net.input_names, net.output_names, artifact)
     verdict = check_network_sat(table, net, artifact)
     return Verdict(
         artifact,

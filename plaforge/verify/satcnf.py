@@ -20,9 +20,10 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 from ..core.cube import Cube
-from ..core.table import DEFAULT_ENUM_LIMIT, Table
-from .equivalence import OutputVerdict, Verdict, _names_match, check_network
+from ..core.names import check_names
 from ..core.network import LutNetwork
+from ..core.table import DEFAULT_ENUM_LIMIT, Table
+from .equivalence import OutputVerdict, Verdict, check_network
 
 __all__ = ["PointCnf", "check_network_any", "check_network_sat", "region", "sat_point"]
 
@@ -162,7 +163,7 @@ def check_network_sat(table: Table, net: LutNetwork, artifact: str = "LUT networ
         Per output ``method="sat"``, ``vectors=0`` (no enumeration), and on failure the counterexample point with
         the expected and actual values.
     """
-    _names_match(table, net.input_names, net.output_names, artifact)
+    check_names(table, net.input_names, net.output_names, artifact)
     n = table.n_inputs
     res = []
     for j, name in enumerate(table.output_names):

@@ -3,105 +3,45 @@
 Vectors
 -------
 Up to ``exhaustive_limit`` inputs every point is driven (points where every output is a don't-care are skipped:
-nothing there can fail). Beyond it: corner cases first (all zeros, all ones, walking ones, walking zeros, and both
-extreme corners of every ON cube of every output: its free inputs all 0 and all 1), then ``samples`` points drawn
-from a ``random.Random(seed)`` stream (half uniform, half inside ON cubes), duplicates dropped. The same seed gives
-the same vectors.
+nothing there can fail). Beyond it: the corner cases and seeded random points of
+:func:`plaforge.verify.vectors.sample_points`, the same vectors the stand-alone harness drives.
 
 Speed
 -----
 One testbench process drives all input ports at once through ``Cat`` of the ports (a single ``ctx.set`` per vector,
 so the design settles once per vector) and reads all output ports through one ``ctx.get``. The expected values come
 from the Table's packed truth tables (cube look-ups above the enumeration limit) and are compared after the run with
-numpy, so the Python work inside the simulation loop is two calls per vector. ``benchmarks/bench_harness.py``
+numpy, so the Python work inside the simulation loop is two calls per vector. ``benchmarks/bench_simulation.py``
 measures the rate.
 """
 
 from __future__ import annotations
 
-import hashlib
-import os
-import random
-import types
 from collections.abc import Sequence
-from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import Any
 
 import numpy as np
 
-from ..core.errors import CheckFailed, PlaforgeError
+from ..core.errors import ArtifactError
+from ..core.names import Port, ports_of
 from ..core.table import DEFAULT_ENUM_LIMIT, Table, unpack_bits
 from .equivalence import OutputVerdict, Verdict
+from .vectors import sample_points
 
-if TYPE_CHECKING:
-    from ..emit.amaranth import Port
-
-__all__ = [
-    "DEFAULT_SAMPLES",
-    "check_component",
-    "component_class",
-    "corner_points",
-    "load_module",
-    "sample_points",
-    "simulate_points",
-]
+__all__ = ["DEFAULT_SAMPLES", "check_component", "simulate_points"]
 
 DEFAULT_SAMPLES = 4096
 
 
-def load_module(path: str | os.PathLike[str]) -> types.ModuleType:
-    """Import a Python file by its path, in isolation (not added to ``sys.modules``, nothing else imported, no
-    bytecode cache read or written).
-
-    Raises
-    ------
-    PlaforgeError
-        If the file is missing or fails to import (the error names the file and the exception).
-    """
-    p = Path(path)
-    if not p.is_file():
-        raise PlaforgeError(f"{p}: no such module file")
-    name = "_plaforge_checked_" + hashlib.sha256(str(p.resolve()).encode()).hexdigest()[:16]
-    try:
-        source = p.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise PlaforgeError(f"{p}: cannot read: {exc}") from None
-    # Compiled from the text each time (no cached bytecode that could be stale for a file rewritten in place).
-    mod = types.ModuleType(name)
-    mod.__file__ = str(p)
-    try:
-        code = compile(source, str(p), "exec", dont_inherit=True)
-        exec(code, mod.__dict__)  # noqa: S102 - running the module is the point of the check
-    except Exception as exc:  # noqa: BLE001 - a user's file can raise anything while importing
-        raise PlaforgeError(f"{p}: importing it failed: {type(exc).__name__}: {exc}") from None
-    return mod
-
-
-def component_class(mod: types.ModuleType, where: str = "module") -> type:
-    """The single ``amaranth.lib.wiring.Component`` subclass defined in ``mod``.
-
-    Raises
-    ------
-    PlaforgeError
-        If there is none or more than one (the generated-module contract requires exactly one).
-    """
-    from amaranth.lib import wiring
-
-    found = [
-        v for v in vars(mod).values()
-        if isinstance(v, type) and issubclass(v, wiring.Component) and v is not wiring.Component
-        and v.__module__ == mod.__name__
-    ]
-    if len(found) != 1:
-        names = [c.__name__ for c in found]
-        raise PlaforgeError(f"{where}: expected exactly one wiring.Component subclass, found {len(found)} {names}")
-    return found[0]
-
-
 def _port_signals(table: Table, component: Any, where: str) -> tuple[list[Port], list[Port], list[Any], list[Any]]:
-    from amaranth.lib import wiring
+    """The component's signals for the spec's ports, inputs then outputs.
 
-    from ..emit.amaranth import ports_of  # here, not at the top: emit -> lut -> verify would import in a circle
+    Raises
+    ------
+    ArtifactError
+        If a port is missing or has the wrong direction or width: a component made for another spec.
+    """
+    from amaranth.lib import wiring
 
     members = component.signature.members
     ins, outs, in_sigs, out_sigs = [], [], [], []
@@ -109,12 +49,12 @@ def _port_signals(table: Table, component: Any, where: str) -> tuple[list[Port],
         if p.name not in members:
             have = sorted(members.keys())
             _silence(component)
-            raise CheckFailed(f"{where}: no port {p.name!r} for spec {p.spec_name!r}; the component has {have}")
+            raise ArtifactError(f"{where}: no port {p.name!r} for spec {p.spec_name!r}; the component has {have}")
         mem = members[p.name]
         want = wiring.In if p.direction == "in" else wiring.Out
         if not mem.is_port or mem.flow != want or _width(mem.shape) != p.width:
             _silence(component)
-            raise CheckFailed(
+            raise ArtifactError(
                 f"{where}: port {p.name!r} is {mem!r}; the spec needs {want.name}({p.width}) for {p.spec_name!r}"
             )
         (ins if p.direction == "in" else outs).append(p)
@@ -137,40 +77,6 @@ def _width(shape: Any) -> int:
         return Shape.cast(shape).width
     except TypeError:
         return -1
-
-
-def corner_points(table: Table) -> list[int]:
-    """All zeros, all ones, walking ones and zeros, and the two extreme corners of every ON cube (in that order)."""
-    n = table.n_inputs
-    full = (1 << n) - 1
-    pts = [0, full]
-    pts += [1 << i for i in range(n)]
-    pts += [full ^ (1 << i) for i in range(n)]
-    for j in range(table.n_outputs):
-        for c in table.on_cubes(j):
-            pts += [c.value, c.value | (full & ~c.care)]
-    return list(dict.fromkeys(pts))
-
-
-def sample_points(table: Table, samples: int, seed: int) -> tuple[list[int], int]:
-    """Corner points then ``samples`` seeded random points, de-duplicated; also returns the corner count.
-
-    Half of the random points are drawn uniformly; the other half inside the ON cubes (a random cube of a random
-    output, its free inputs random), so outputs whose care points are rare (mostly don't-care) are still exercised.
-    """
-    corners = corner_points(table)
-    rng = random.Random(seed)
-    n = table.n_inputs
-    full = (1 << n) - 1
-    on = [c for j in range(table.n_outputs) for c in table.on_cubes(j)]
-    pts = dict.fromkeys(corners)
-    for k in range(samples):
-        p = rng.getrandbits(n) if n else 0
-        if k % 2 and on:
-            c = on[rng.randrange(len(on))]
-            p = c.value | (p & full & ~c.care)
-        pts[p] = None
-    return list(pts), len(corners)
 
 
 def _expected(table: Table, points: np.ndarray | list[int]) -> tuple[list[np.ndarray], list[np.ndarray]]:
@@ -208,8 +114,9 @@ def simulate_points(table: Table, component: Any, points: Sequence[int], where: 
 
     Raises
     ------
-    CheckFailed
-        If the component lacks a port the spec needs, or a port has the wrong direction or width.
+    ArtifactError
+        If the component lacks a port the spec needs, a port has the wrong direction or width, or elaborating the
+        component raises.
     """
     from amaranth.hdl import Cat
     from amaranth.sim import Simulator
@@ -233,7 +140,11 @@ def simulate_points(table: Table, component: Any, points: Sequence[int], where: 
             set_(cat_in, v)
             append(get(cat_out))
 
-    sim = Simulator(component)
+    try:
+        sim = Simulator(component)  # elaborates the component
+    except Exception as exc:  # noqa: BLE001 - a user's elaborate can raise anything
+        _silence(component)
+        raise ArtifactError(f"{where}: elaborating it failed: {type(exc).__name__}: {exc}") from None
     sim.add_testbench(bench)
     sim.run()
     # raw bit q is table output out_order[q]; invert the permutation
@@ -271,12 +182,13 @@ def check_component(
         Per output: pass/fail, care vectors driven (don't-cares skipped), and the first failing vector in driving
         order with the expected and actual values.
     """
-    n = table.n_inputs
+    n, n_out = table.n_inputs, table.n_outputs
     if n <= exhaustive_limit:
         pts = np.arange(1 << n, dtype=np.int64)
         method = "Amaranth simulation, exhaustive"
     else:
-        plist, corners = sample_points(table, samples, seed)
+        on_cubes = [(c.care, c.value) for j in range(n_out) for c in table.on_cubes(j)]
+        plist, corners = sample_points(n, on_cubes, samples, seed)
         pts = np.array(plist, dtype=object if n > 62 else np.int64)
         method = f"Amaranth simulation, {corners} corner + {len(plist) - corners} random vectors (seed {seed})"
     on, dc = _expected(table, pts)

@@ -1,0 +1,110 @@
+"""What a generated component computes, apart from how its source is written out.
+
+A :class:`LogicPlan` holds the ports (:func:`plaforge.core.names.ports_of`), the internal nodes and what drives each
+output. Style ``sop`` (from a :class:`plaforge.core.cube.Cover`): each distinct product term once, each output the OR
+of its terms, complemented where the cover realizes the output inverted. Style ``lut`` (from a
+:class:`plaforge.core.network.LutNetwork`): each LUT a node with its fan-ins and INIT.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from ..core.cube import Cover
+from ..core.errors import ArtifactError
+from ..core.names import GENERATED_FILE_NAMES, Port, check_names, identifier, ports_of, unique_names
+from ..core.network import LutNetwork
+from ..core.table import Table
+
+__all__ = ["LogicPlan", "Ref", "plan_for"]
+
+Ref = tuple[str, int]
+"""A signal reference in a plan: ``("in", i)`` table input ``i``, ``("node", k)`` node ``k``, ``("const", v)``."""
+
+
+@dataclass(frozen=True, slots=True)
+class LogicPlan:
+    """What the component computes.
+
+    Parameters
+    ----------
+    style : str
+        ``"sop"`` or ``"lut"``.
+    ports : tuple of Port
+    nodes : tuple
+        ``sop``: product terms as ``(care, value)`` input masks. ``lut``: ``(local_name, fanin_refs, init)``.
+    outputs : tuple
+        Per table output. ``sop``: ``(term_indices, inverted)``. ``lut``: the driving :data:`Ref`.
+    summary : str
+        One line of figures for docstrings.
+    """
+
+    style: str
+    ports: tuple[Port, ...]
+    nodes: tuple[Any, ...]
+    outputs: tuple[Any, ...]
+    summary: str
+
+
+def _sop_plan(table: Table, cover: Cover) -> LogicPlan:
+    index: dict[tuple[int, int], int] = {}
+    feeds: list[int] = []
+    for c in cover.cubes:
+        if not c.outputs:
+            continue
+        key = (c.care, c.value)
+        if key not in index:
+            index[key] = len(index)
+            feeds.append(0)
+        feeds[index[key]] |= c.outputs
+    terms = tuple(index)
+    outs = tuple(
+        (tuple(t for t in range(len(terms)) if feeds[t] >> j & 1), cover.is_inverted(j))
+        for j in range(cover.n_outputs)
+    )
+    literals = sum(care.bit_count() for care, _ in terms)
+    proven = "proven minimum" if cover.optimal else "not proven minimum"
+    summary = (
+        f"sum of products: {len(terms)} shared product terms, {literals} literals, "
+        f"{cover.n_outputs} outputs ({cover.method or 'unknown'} cover, {proven})"
+    )
+    return LogicPlan("sop", ports_of(table), terms, outs, summary)
+
+
+def _lut_plan(table: Table, net: LutNetwork) -> LogicPlan:
+    try:
+        net.check_structure()
+    except ValueError as exc:
+        raise ArtifactError(f"LUT network: {exc}") from None
+    refs: dict[str, Ref] = {name: ("in", i) for i, name in enumerate(net.input_names)}
+    refs |= {"0": ("const", 0), "1": ("const", 1)}
+    locals_ = unique_names((identifier(lut.name, GENERATED_FILE_NAMES) for lut in net.luts), GENERATED_FILE_NAMES)
+    nodes = []
+    for k, (lut, local) in enumerate(zip(net.luts, locals_)):
+        nodes.append((local, tuple(refs[x] for x in lut.inputs), lut.init))
+        refs[lut.name] = ("node", k)
+    summary = (
+        f"{net.k}-input LUT network: {net.count} LUTs, depth {net.depth}, {len(net.output_names)} outputs"
+        f"{' (' + net.method + ')' if net.method else ''}"
+    )
+    return LogicPlan("lut", ports_of(table), tuple(nodes), tuple(refs[d] for d in net.drivers), summary)
+
+
+def plan_for(table: Table, artifact: Cover | LutNetwork) -> LogicPlan:
+    """The plan realizing ``artifact`` (a Cover for style ``sop``, a LutNetwork for ``lut``) with ``table``'s ports.
+
+    Raises
+    ------
+    ArtifactError
+        If the artifact's input or output names differ from the table's, or a LUT network is not well formed.
+    TypeError
+        If ``artifact`` is neither.
+    """
+    if isinstance(artifact, Cover):
+        check_names(table, artifact.input_names, artifact.output_names, "the cover")
+        return _sop_plan(table, artifact)
+    if isinstance(artifact, LutNetwork):
+        check_names(table, artifact.input_names, artifact.output_names, "the LUT network")
+        return _lut_plan(table, artifact)
+    raise TypeError(f"artifact must be a Cover or a LutNetwork, not {type(artifact).__name__}")
