@@ -191,7 +191,7 @@ def cut_function(g: SubjectGraph, v: int, leaves: Sequence[int]) -> int:
 
 
 def map_subject(g: SubjectGraph, k: int, cut_limit: int = 0, relax: bool = False,
-                area_passes: int = 2) -> CutMapping:
+                area_passes: int = 2, per_output: bool = False) -> CutMapping:
     """Map a subject graph onto k-LUTs (see module docs).
 
     Parameters
@@ -203,6 +203,9 @@ def map_subject(g: SubjectGraph, k: int, cut_limit: int = 0, relax: bool = False
         Cuts kept per node (0: all).
     relax : bool
         Recover area without a depth target (depth may exceed the optimum).
+    per_output : bool
+        Hold every output at its own optimal label (instead of the deepest output's): no output gets deeper than
+        its labelling allows, at some cost in area.
     area_passes : int
         Area-flow passes before the exact-area pass.
     """
@@ -253,10 +256,12 @@ def map_subject(g: SubjectGraph, k: int, cut_limit: int = 0, relax: bool = False
                     stack.append(u)
         return mapped, refs
 
+    own = {o: arr[o] for o in outs}
+
     def required(mapped: set[int]) -> list[int]:
         req = [INF] * n
         for o in outs:
-            req[o] = min(req[o], target)
+            req[o] = min(req[o], own[o] if per_output and not relax else target)
         for v in sorted(mapped, reverse=True):
             for u in best[v]:  # type: ignore[union-attr]
                 req[u] = min(req[u], req[v] - 1)
@@ -352,17 +357,18 @@ def graph_from_network(net: LutNetwork) -> SubjectGraph:
     return g
 
 
-def remap_network(net: LutNetwork, options: LutOptions) -> LutNetwork:
+def remap_network(net: LutNetwork, options: LutOptions, per_output: bool = False) -> LutNetwork:
     """Remap a LUT network by cuts over its own LUTs; the better of the depth-targeted and relaxed mappings.
 
     The better is chosen by ``options.objective``; ``method`` records ``+cuts`` and whether cut lists were
-    complete.
+    complete. With ``per_output`` only the depth-targeted mapping is made, every output held at its own optimal
+    label, so no output ends deeper than it is in ``net`` (a LUT's own fan-ins are one of its cuts).
     """
     g = graph_from_network(net)
     best: LutNetwork | None = None
     keyf = (lambda n: (n.count, n.depth)) if options.objective == "area" else (lambda n: (n.depth, n.count))
-    for relax in (False, True):
-        m = map_subject(g, net.k, options.cut_limit, relax=relax)
+    for relax in ((False,) if per_output else (False, True)):
+        m = map_subject(g, net.k, options.cut_limit, relax=relax, per_output=per_output)
         luts, drivers = mapping_to_luts(m)
         cand = LutNetwork(net.k, net.input_names, net.output_names, tuple(luts), tuple(drivers), {},
                           f"{net.method}+remap cuts" + ("" if m.exhaustive else " (priority cuts)"))

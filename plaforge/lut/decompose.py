@@ -44,7 +44,7 @@ from itertools import combinations
 
 import numpy as np
 
-__all__ = ["Decomposer", "NetworkBuilder", "Universe"]
+__all__ = ["Decomposer", "NetworkBuilder", "Universe", "shannon_depth", "shannon_selects"]
 
 
 REUSE_SCAN = 40  # LUTs tried per reuse step (largest support first, newest first)
@@ -255,6 +255,7 @@ class Decomposer:
     budget: int = 1500
     beam: int = 8
     pending: list[Pending] = field(default_factory=list)
+    reuse: bool = True
 
     # -- small helpers ---------------------------------------------------------------------------------------
     def _arrays(self, sigs: Sequence[str], u: Universe) -> list[np.ndarray]:
@@ -286,7 +287,9 @@ class Decomposer:
         if not off.any():
             return "1"
         # an existing signal that fits (identical function, or equal up to don't-cares)
-        if (on | off).all():
+        if not self.reuse:
+            pass
+        elif (on | off).all():
             hit = self.builder.function_index(u).get(np.packbits(on).tobytes())
             if hit is not None:
                 return hit
@@ -350,6 +353,28 @@ class Decomposer:
             arrays = self._arrays(sigs, u)
             sigs, arrays = self._reduce(sigs, arrays, on, off)
         return self.make_lut(u, sigs, on, off)
+
+    def shannon(self, u: Universe, sigs: list[str], on: np.ndarray, off: np.ndarray) -> str:
+        """A multiplexer tree for the output ``(on, off)``: ``s`` select signals (the largest ``s`` with
+        ``2**s + s <= k``) choose among the ``2**s`` cofactors, each realized the same way, until at most ``k``
+        signals are left (one LUT). Depth is at most ``1 + ceil((n - k) / s)`` for ``n`` signals (``k >= 3``)."""
+        s = shannon_selects(self.k)
+        if not on.any():
+            return "0"
+        if not off.any():
+            return "1"
+        arrays = self._arrays(sigs, u)
+        sigs, arrays = self._reduce(sigs, arrays, on, off)
+        if len(sigs) <= self.k:
+            return self.make_lut(u, sigs, on, off)
+        sel, rest = sigs[:s], sigs[s:]
+        idx = signal_index(arrays[:s], u.size)
+        data = []
+        for v in range(1 << s):
+            here = idx == v
+            data.append(self.shannon(u, rest, on & here, off & here))
+        mux = list(sel) + [d for d in dict.fromkeys(data) if d not in ("0", "1")]
+        return self.make_lut(u, mux, on, off)
 
     def _reuse(self, u: Universe, sigs: list[str], arrays: list[np.ndarray], on: np.ndarray,
                off: np.ndarray) -> tuple[list[str], list[np.ndarray]] | None:
@@ -471,6 +496,23 @@ class Decomposer:
             if dropped >= 2:
                 count += 1
         return count
+
+
+def shannon_selects(k: int) -> int:
+    """Most select inputs a k-LUT multiplexer can take: the largest ``s`` with ``2**s + s <= k`` (0 for k < 3)."""
+    s = 0
+    while (1 << (s + 1)) + s + 1 <= k:
+        s += 1
+    return s
+
+
+def shannon_depth(n: int, k: int) -> int | None:
+    """Depth the Shannon multiplexer tree guarantees for ``n`` inputs: 1 when ``n <= k``, else
+    ``1 + ceil((n - k) / s)`` (``None`` for k < 3, where no multiplexer fits one LUT)."""
+    if n <= k:
+        return 1 if n > 0 else 0
+    s = shannon_selects(k)
+    return 1 + math.ceil((n - k) / s) if s else None
 
 
 def _codes(mu: int) -> int:

@@ -25,6 +25,7 @@ __all__ = [
     "drop_unused_inputs",
     "format_init",
     "pad_init",
+    "select_inputs",
 ]
 
 InitStyle = Literal["verilog", "python", "bits"]
@@ -98,7 +99,7 @@ def pad_init(init: int, used: int, k: int) -> int:
     return init
 
 
-def _select(init: int, order: Sequence[int]) -> int:
+def select_inputs(init: int, order: Sequence[int]) -> int:
     """INIT over the fan-ins ``order`` (new fan-in ``b`` is old fan-in ``order[b]``; old fan-ins left out are 0)."""
     out = 0
     for q in range(1 << len(order)):
@@ -128,4 +129,4 @@ def drop_unused_inputs(init: int, n_inputs: int) -> tuple[int, tuple[int, ...]]:
         The reduced INIT and the kept old fan-in positions in order.
     """
     keep = tuple(b for b in range(n_inputs) if depends_on(init, n_inputs, b))
-    return _select(init, keep), keep
+    return select_inputs(init, keep), keep

@@ -2,6 +2,9 @@
 
 Pipeline
 --------
+0. The inputs are put in a canonical order derived from the function (:mod:`plaforge.lut.canon`), so the result
+   does not depend on the spec's column order; for tables of at most ``TWO_ORDER_LIMIT`` inputs the reverse of
+   that order is mapped too and the better network kept. Fan-ins are listed in the spec's order at the end.
 1. Per output, its support ``S_j`` (:meth:`plaforge.table.Table.support`: don't-cares used greedily to drop
    inputs). Constants and plain inputs need no LUT; a complemented input is one 1-input LUT (an inverter).
 2. Outputs that one function can serve (equal, or equal up to their don't-cares) are merged into one.
@@ -14,8 +17,15 @@ Pipeline
    (:mod:`plaforge.lut.cuts`).
 4. When ``options.remap`` is set, the whole network is remapped by cuts (depth-optimal labels, then area
    recovery), and the better network by ``options.objective`` is kept.
-5. Dead LUTs are removed, LUTs are renamed ``n0, n1, ...`` in topological order, and the network is re-checked
-   against the table.
+5. Steps 1-4 run for ``k`` and, for tables of at most ``SMALLER_K_LIMIT`` inputs, for ``k - 1``, ``k - 2``, ...
+   down to 3, stopping at the first size whose network has more than ``SMALLER_K_GIVE_UP`` times the LUTs of the
+   best so far (a k'-LUT network is a k-LUT network, so a larger k does not give a larger network than the sizes
+   tried); every output mapped from the cover alone is one more candidate. The best by ``options.objective`` is
+   kept.
+6. ``objective="depth"``: per output the shallowest realization, with a Shannon multiplexer tree for outputs
+   above the Shannon bound, then area recovery that never deepens an output (:mod:`plaforge.lut.depth`).
+7. Fan-ins a LUT ignores are dropped, equal LUTs merged (structural hashing), dead LUTs removed, LUTs renamed
+   ``n0, n1, ...`` in topological order, and the network is re-checked against the table.
 
 Lower bounds (``LutNetwork.lower_bounds``)
 ------------------------------------------
@@ -177,18 +187,31 @@ def _prefix(input_names: Sequence[str], base: str = "n") -> str:
 
 
 def tidy_network(net: LutNetwork, prefix: str = "n") -> LutNetwork:
-    """Drop LUTs no output needs, drop fan-ins a LUT ignores, and rename LUTs ``prefix0, prefix1, ...`` in order.
+    """Drop fan-ins a LUT ignores, merge LUTs that compute the same function of the same fan-ins (structural
+    hashing on the sorted fan-ins and the INIT over them), drop LUTs no output needs, and rename LUTs
+    ``prefix0, prefix1, ...`` in order.
 
     The function of every output is unchanged; LUT order stays topological.
     """
-    from .init import drop_unused_inputs
+    from .init import drop_unused_inputs, select_inputs
 
-    by_name = {lut.name: lut for lut in net.luts}
-    # simplify INITs first (fan-ins ignored), then find what is live
+    # simplify INITs first (fan-ins ignored), merge equal LUTs, then find what is live
     simple: dict[str, Lut] = {}
+    alias: dict[str, str] = {}
+    seen: dict[tuple[tuple[str, ...], int], str] = {}
     for lut in net.luts:
         init, keep = drop_unused_inputs(lut.init, len(lut.inputs))
-        simple[lut.name] = Lut(lut.name, tuple(lut.inputs[b] for b in keep), init)
+        ins = tuple(alias.get(lut.inputs[b], lut.inputs[b]) for b in keep)
+        order = sorted(range(len(ins)), key=lambda b: ins[b])
+        key = (tuple(ins[b] for b in order), select_inputs(init, order))
+        if key in seen:
+            alias[lut.name] = seen[key]
+            continue
+        seen[key] = lut.name
+        simple[lut.name] = Lut(lut.name, ins, init)
+    net = LutNetwork(net.k, net.input_names, net.output_names, tuple(simple.values()),
+                     tuple(alias.get(d, d) for d in net.drivers), dict(net.lower_bounds), net.method)
+    by_name = {lut.name: lut for lut in net.luts}
     live: set[str] = set()
     stack = [d for d in net.drivers if d in by_name]
     while stack:
@@ -209,6 +232,20 @@ def tidy_network(net: LutNetwork, prefix: str = "n") -> LutNetwork:
     drivers = tuple(rename.get(d, d) for d in net.drivers)
     return LutNetwork(net.k, net.input_names, net.output_names, tuple(luts), drivers, dict(net.lower_bounds),
                       net.method)
+
+
+def _spec_order_fanins(net: LutNetwork, input_names: Sequence[str]) -> tuple[Lut, ...]:
+    """Every LUT's fan-ins reordered: table inputs in the spec's order first, then LUTs in network order (the INIT
+    permuted to match), so listings read in the spec's order whatever order the mapper worked in."""
+    from .init import select_inputs
+
+    rank = {name: i for i, name in enumerate(input_names)}
+    rank.update({lut.name: len(input_names) + x for x, lut in enumerate(net.luts)})
+    out = []
+    for lut in net.luts:
+        order = sorted(range(len(lut.inputs)), key=lambda b: rank[lut.inputs[b]])
+        out.append(Lut(lut.name, tuple(lut.inputs[b] for b in order), select_inputs(lut.init, order)))
+    return tuple(out)
 
 
 def _resolve_constant_luts(net: LutNetwork) -> LutNetwork:
@@ -257,59 +294,28 @@ def _check_cover(table: Table, cover: Cover) -> None:
         )
 
 
-def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None = None) -> LutNetwork:
-    """Map every output of ``table`` onto one shared network of k-input LUTs.
+def _objective_key(objective: str):
+    """Sort key of networks: fewer LUTs first (area) or fewer levels first (depth), the other breaking ties."""
+    return (lambda n: (n.count, n.depth)) if objective == "area" else (lambda n: (n.depth, n.count))
 
-    Parameters
-    ----------
-    table : Table
-        The function; never modified. Don't-cares are used freely; every output satisfies
-        ``ON ⊆ network ⊆ ON ∪ DC``.
-    cover : Cover
-        A two-level cover realizing ``table`` (same input and output names), as a minimizer made it (any cost,
-        exact or not, outputs in complement allowed). Outputs too wide to decompose on their truth table are
-        mapped from it (module docs, step 3); the others do not use it.
-    k : int
-        LUT size, 2 to 8.
-    options : LutOptions, optional
-        Decomposition limits, objective, cut-pass settings, verification.
 
-    Returns
-    -------
-    LutNetwork
-        LUTs named ``n0, n1, ...`` in topological order (another prefix when an input is already so named),
-        ``drivers`` per output, ``lower_bounds`` (``count``, ``depth`` and their parts) and ``method``.
+SMALLER_K_LIMIT = 10
+SMALLER_K_GIVE_UP = 1.5
+TWO_ORDER_LIMIT = 12
 
-    Raises
-    ------
-    TypeError
-        ``table`` is not a Table, ``cover`` not a Cover, ``k`` not an int, ``options`` not LutOptions.
-    ValueError
-        ``k`` outside 2..8, or the cover's input or output names differ from the table's.
-    plaforge.core.errors.InternalError
-        When ``options.verify`` is set and the network does not match the table: a bug, unless ``cover`` does not
-        realize the table.
 
-    Examples
-    --------
-    >>> from plaforge.core.cube import Cover, Cube
-    >>> from plaforge.core.table import Table
-    >>> t = Table.from_function(["a", "b"], ["y"], lambda p: [(p & 1 > 0) & (p & 2 > 0)])
-    >>> net = map_luts(t, Cover(("a", "b"), ("y",), (Cube(0b11, 0b11),)), k=4)
-    >>> [(lut.name, lut.inputs, hex(lut.init)) for lut in net.luts], net.drivers
-    ([('n0', ('a', 'b'), '0x8')], ('n0',))
-    """
-    if not isinstance(table, Table):
-        raise TypeError(f"map_luts() needs a Table, not {type(table).__name__}")
-    _check_cover(table, cover)
-    if not isinstance(k, int) or isinstance(k, bool):
-        raise TypeError(f"k must be an int, not {k!r}")
-    if not 2 <= k <= 8:
-        raise ValueError(f"k must be between 2 and 8, not {k!r}")
-    opts = options if options is not None else LutOptions()
-    if not isinstance(opts, LutOptions):
-        raise TypeError(f"options must be LutOptions, not {type(opts).__name__}")
-    prefix = _prefix(table.input_names)
+def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
+    """LUT sizes mapped, ``k`` first: then ``k - 1``, ``k - 2``, ... down to 3 when the table has at most
+    SMALLER_K_LIMIT inputs (a k'-LUT network is a k-LUT network, so a larger k never loses to a smaller one); the
+    caller stops descending at the first size whose network has more than SMALLER_K_GIVE_UP times the LUTs of the
+    best so far."""
+    if table.n_inputs <= min(SMALLER_K_LIMIT, opts.enum_limit):
+        return list(range(k, min(3, k) - 1, -1))
+    return [k]
+
+
+def _map_at(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -> LutNetwork:
+    """Steps 1-5 of the module docs at one LUT size (no bounds, no check)."""
     builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@t"), global_limit=max(opts.decompose_limit, 1))
     dec = Decomposer(builder, k, budget=opts.bound_set_budget, beam=opts.beam)
     m = table.n_outputs
@@ -376,13 +382,137 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
         from .cuts import remap_network
 
         alt = remap_network(net, opts)
-        key = (lambda n: (n.count, n.depth)) if opts.objective == "area" else (lambda n: (n.depth, n.count))
-        if key(alt) < key(net):
+        if _objective_key(opts.objective)(alt) < _objective_key(opts.objective)(net):
             net = alt
-    net = _resolve_constant_luts(net)
-    net = tidy_network(net, prefix)
+    return tidy_network(_resolve_constant_luts(net), prefix)
+
+
+def _cover_network(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -> LutNetwork | None:
+    """Every output mapped by cuts from the cover alone (step 3 for all outputs); ``None`` for an empty cover."""
+    from .cuts import map_cover_outputs
+
+    if not cover.cubes:
+        return None
+    m = table.n_outputs
+    empty = LutNetwork(k, table.input_names, table.output_names, (), ("0",) * m, {}, "")
+    return tidy_network(_resolve_constant_luts(map_cover_outputs(empty, cover, range(m), opts)), prefix)
+
+
+def _depth_pass(table: Table, net: LutNetwork, cut: LutNetwork | None, opts: LutOptions,
+                prefix: str) -> LutNetwork:
+    """The depth objective over ``net`` and the cover-only network ``cut`` (:mod:`plaforge.lut.depth`)."""
+    from .depth import shallowest
+
+    k, m = net.k, table.n_outputs
+    candidates = [net] + ([cut] if cut is not None else [])
+    enumerable = table.n_inputs <= opts.enum_limit
+    supports = [table.support(j).bit_count() if enumerable else table.n_inputs for j in range(m)]
+
+    def fallback(outputs: list[int]) -> LutNetwork | None:
+        todo = [j for j in outputs if enumerable and supports[j] <= opts.decompose_limit]
+        if not todo:
+            return None
+        builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@s"),
+                                 global_limit=max(opts.decompose_limit, 1))
+        dec = Decomposer(builder, k, reuse=False)
+        drivers = ["0"] * m
+        for j in todo:
+            sup = tuple(i for i in range(table.n_inputs) if table.support(j) >> i & 1)
+            on, off = _local_sets(table, j, sup)
+            u = builder.universe(sup)
+            drivers[j] = dec.shannon(u, [table.input_names[i] for i in u.inputs], on, off)
+        luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
+        raw = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {}, "Shannon")
+        return tidy_network(_resolve_constant_luts(raw), prefix)
+
+    return shallowest(candidates, supports, fallback, opts, lambda n: tidy_network(_resolve_constant_luts(n), prefix))
+
+
+def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None = None) -> LutNetwork:
+    """Map every output of ``table`` onto one shared network of k-input LUTs.
+
+    Parameters
+    ----------
+    table : Table
+        The function; never modified. Don't-cares are used freely; every output satisfies
+        ``ON ⊆ network ⊆ ON ∪ DC``.
+    cover : Cover
+        A two-level cover realizing ``table`` (same input and output names), as a minimizer made it (any cost,
+        exact or not, outputs in complement allowed). Outputs too wide to decompose on their truth table are
+        mapped from it (module docs, step 3); the others do not use it.
+    k : int
+        LUT size, 2 to 8.
+    options : LutOptions, optional
+        Decomposition limits, objective, cut-pass settings, verification.
+
+    Returns
+    -------
+    LutNetwork
+        LUTs named ``n0, n1, ...`` in topological order (another prefix when an input is already so named),
+        ``drivers`` per output, ``lower_bounds`` (``count``, ``depth`` and their parts) and ``method``.
+
+    Raises
+    ------
+    TypeError
+        ``table`` is not a Table, ``cover`` not a Cover, ``k`` not an int, ``options`` not LutOptions.
+    ValueError
+        ``k`` outside 2..8, or the cover's input or output names differ from the table's.
+    plaforge.core.errors.InternalError
+        When ``options.verify`` is set and the network does not match the table: a bug, unless ``cover`` does not
+        realize the table.
+
+    Examples
+    --------
+    >>> from plaforge.core.cube import Cover, Cube
+    >>> from plaforge.core.table import Table
+    >>> t = Table.from_function(["a", "b"], ["y"], lambda p: [(p & 1 > 0) & (p & 2 > 0)])
+    >>> net = map_luts(t, Cover(("a", "b"), ("y",), (Cube(0b11, 0b11),)), k=4)
+    >>> [(lut.name, lut.inputs, hex(lut.init)) for lut in net.luts], net.drivers
+    ([('n0', ('a', 'b'), '0x8')], ('n0',))
+    """
+    if not isinstance(table, Table):
+        raise TypeError(f"map_luts() needs a Table, not {type(table).__name__}")
+    _check_cover(table, cover)
+    if not isinstance(k, int) or isinstance(k, bool):
+        raise TypeError(f"k must be an int, not {k!r}")
+    if not 2 <= k <= 8:
+        raise ValueError(f"k must be between 2 and 8, not {k!r}")
+    opts = options if options is not None else LutOptions()
+    if not isinstance(opts, LutOptions):
+        raise TypeError(f"options must be LutOptions, not {type(opts).__name__}")
+    from .canon import canonical_order, permute_cover, permute_table
+
+    prefix = _prefix(table.input_names)
+    canon = canonical_order(table) if table.n_inputs <= opts.enum_limit else tuple(range(table.n_inputs))
+    orders = [canon]
+    if table.n_inputs <= TWO_ORDER_LIMIT and canon[::-1] != canon:
+        orders.append(canon[::-1])
+    key = _objective_key(opts.objective)
+    best: tuple[LutNetwork, Table, Cover] | None = None
+    for order in orders:
+        ctable, ccover = permute_table(table, order), permute_cover(cover, order)
+        here: LutNetwork | None = None
+        for kk in _sizes_tried(ctable, k, opts):
+            cand = _map_at(ctable, ccover, kk, opts, prefix)
+            cand = LutNetwork(k, cand.input_names, cand.output_names, cand.luts, cand.drivers, {},
+                              cand.method + ("" if kk == k else f" (k={kk})"))
+            if here is not None and cand.count > SMALLER_K_GIVE_UP * here.count:
+                break  # smaller LUTs only get worse from here on
+            if here is None or key(cand) < key(here):
+                here = cand
+        assert here is not None
+        if best is None or key(here) < key(best[0]):
+            best = (here, ctable, ccover)
+    assert best is not None
+    net, ctable, ccover = best
+    cut = _cover_network(ctable, ccover, k, opts, prefix)
+    if cut is not None and key(cut) < key(net):
+        net = cut
+    if opts.objective == "depth":
+        net = _depth_pass(ctable, net, cut, opts, prefix)
     bounds = lower_bounds(table, k, opts.enum_limit)
-    net = LutNetwork(net.k, net.input_names, net.output_names, net.luts, net.drivers, bounds, net.method)
+    net = LutNetwork(net.k, table.input_names, net.output_names, _spec_order_fanins(net, table.input_names),
+                     net.drivers, bounds, net.method)
     if opts.verify:
         from ..verify.satcnf import check_network_any
 

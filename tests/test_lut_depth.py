@@ -1,0 +1,88 @@
+"""The depth objective: never deeper than the area objective, never deeper than the Shannon bound, and the Shannon
+multiplexer tree itself; each network checked against a reference outside plaforge (Python integer arithmetic,
+math.sin, numpy random truth tables)."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+
+from plaforge.core.table import Table
+from plaforge.lut import LutOptions, map_luts
+from plaforge.lut.decompose import Decomposer, NetworkBuilder, shannon_depth, shannon_selects
+from plaforge.lut.depth import output_levels
+from plaforge.minimize import minimize
+
+
+def _random_table(n: int, m: int, seed: int, p_dc: float = 0.1) -> tuple[Table, list[np.ndarray], list[np.ndarray]]:
+    rng = np.random.default_rng(seed)
+    draw = rng.random((m, 1 << n))
+    on = [draw[j] < 0.45 for j in range(m)]
+    dc = [(draw[j] >= 0.45) & (draw[j] < 0.45 + p_dc) for j in range(m)]
+    t = Table.from_function([f"x{i}" for i in range(n)], [f"y{j}" for j in range(m)], lambda p: on, lambda p: dc)
+    return t, on, dc
+
+
+def _sine() -> Table:
+    names = [f"x[{i}]" for i in range(8)]
+    vals = [round(127.5 + 127.5 * math.sin(2 * math.pi * x / 256)) for x in range(256)]
+    arr = np.array(vals, dtype=np.int64)
+    return Table.from_function(names, [f"y[{i}]" for i in range(8)],
+                               lambda p: [(arr[p] >> i & 1).astype(bool) for i in range(8)])
+
+
+def test_shannon_select_count_and_bound():
+    # integer arithmetic: the largest s with 2**s + s <= k is 1 for k = 3..5 (2 + 1 <= k < 4 + 2) and 2 for
+    # k = 6..8 (4 + 2 <= k < 8 + 3); the bound is 1 + ceil((n - k) / s)
+    assert [shannon_selects(k) for k in range(3, 9)] == [1, 1, 1, 2, 2, 2]
+    assert shannon_depth(8, 4) == 5 and shannon_depth(20, 6) == 8 and shannon_depth(5, 6) == 1
+    assert shannon_depth(9, 2) is None
+
+
+@pytest.mark.parametrize("n, k, seed", [(9, 3, 1), (10, 4, 2), (11, 6, 3)])
+def test_shannon_tree_meets_its_bound_and_computes_the_function(n, k, seed):
+    t, on, dc = _random_table(n, 1, seed)
+    builder = NetworkBuilder(t.input_names, k)
+    dec = Decomposer(builder, k, reuse=False)
+    u = builder.universe(tuple(range(n)))
+    off = ~on[0] & ~dc[0]
+    sig = dec.shannon(u, list(t.input_names), on[0] & ~dc[0], off)
+    level: dict[str, int] = {}
+    values = {name: (np.arange(1 << n) >> i & 1).astype(bool) for i, name in enumerate(t.input_names)}
+    for node in builder.nodes:
+        level[node.name] = 1 + max(level.get(x, 0) for x in node.inputs)
+        idx = sum(values[x].astype(np.int64) << b for b, x in enumerate(node.inputs))
+        bits = np.array([node.init >> q & 1 for q in range(1 << len(node.inputs))], dtype=bool)
+        values[node.name] = bits[idx]
+        assert len(node.inputs) <= k
+    # reference: the numpy truth table the table was built from
+    assert not (values[sig] & off).any() and (values[sig] | ~(on[0] & ~dc[0])).all()
+    assert level[sig] <= shannon_depth(n, k)
+
+
+@pytest.mark.parametrize("n, m, k, seed", [(7, 3, 3, 11), (8, 2, 4, 12), (8, 3, 4, 13), (8, 3, 6, 14)])
+def test_depth_objective_never_deeper_than_area_nor_the_shannon_bound(n, m, k, seed):
+    t, on, dc = _random_table(n, m, seed)
+    cover = minimize(t)
+    area = map_luts(t, cover, k)
+    deep = map_luts(t, cover, k, LutOptions(objective="depth"))
+    assert deep.depth <= area.depth
+    for j, level in enumerate(output_levels(deep)):
+        assert level <= shannon_depth(t.support(j).bit_count(), k)
+    for p in range(1 << n):  # reference: the numpy truth tables
+        got = deep.evaluate(p)
+        for j in range(m):
+            if not dc[j][p]:
+                assert (got >> j & 1) == int(on[j][p])
+
+
+def test_sine_table_at_k4_reaches_the_shannon_depth():
+    # the sine table y = round(127.5 + 127.5 sin(2 pi x / 256)) (math.sin as reference); 8 inputs at k = 4 give
+    # the Shannon bound 1 + ceil((8 - 4) / 1) = 5 levels
+    t = _sine()
+    net = map_luts(t, minimize(t), 4, LutOptions(objective="depth"))
+    assert net.depth <= 5
+    for x in range(256):
+        assert net.evaluate(x) == round(127.5 + 127.5 * math.sin(2 * math.pi * x / 256))
