@@ -2,8 +2,8 @@
 
 Run from the repository root::
 
-    python benchmarks/bench_harness.py            # prints the tables
-    python benchmarks/bench_harness.py --save     # also writes docs/bench_harness.txt
+    python -m benchmarks.bench_simulation            # prints the tables
+    python -m benchmarks.bench_simulation --save     # also writes docs/bench_simulation.txt
 
 Part 1 drives generated components (both styles) in Amaranth's simulator, every input point, and reports vectors per
 second (simulation only; elaboration and expected-value set-up are timed apart). Part 2 checks a seeded random
@@ -18,19 +18,16 @@ import sys
 import time
 from pathlib import Path
 
-ROOT = Path(__file__).resolve().parent.parent
-if str(ROOT) not in sys.path:
-    sys.path.insert(0, str(ROOT))
-
 from benchmarks.suite import SUITE, machine
 from plaforge.core.cube import Cover, Cube
-from plaforge.emit.amaranth import build_component
-from plaforge.lut import map_luts
-from plaforge.minimize import minimize
 from plaforge.core.table import Table
+from plaforge.emit.amaranth import build_component
+from plaforge.flow import realize
 from plaforge.verify.equivalence import check_cover
 from plaforge.verify.sat import sat_check_cover
 from plaforge.verify.simulate import simulate_points
+
+ROOT = Path(__file__).resolve().parent.parent
 
 
 def machine_line() -> str:
@@ -48,18 +45,21 @@ def bench_simulation(names: list[str]) -> list[str]:
     rows = [head]
     for name in names:
         t = SUITE[name]()
+        cover = realize(t, "sop")
         for style in ("sop", "lut"):
-            art = minimize(t) if style == "sop" else map_luts(t, minimize(t), 6)
+            art = realize(t, style, cover=cover, k=6)
             nodes = art.rows if style == "sop" else art.count
-            # setup: elaboration, simulator construction and one vector
+            # setup: elaboration, simulator construction and one vector (the component is built beforehand)
+            component = build_component(t, art)
             t0 = time.perf_counter()
-            simulate_points(t, build_component(t, art), [0])
+            simulate_points(t, component, [0])
             setup = time.perf_counter() - t0
             # steady state: every point, cycled to at least 8192 vectors
             count = max(1 << t.n_inputs, 8192)
             pts = [k % (1 << t.n_inputs) for k in range(count)]
+            component = build_component(t, art)
             t0 = time.perf_counter()
-            simulate_points(t, build_component(t, art), pts)
+            simulate_points(t, component, pts)
             dt = time.perf_counter() - t0 - setup
             rows.append(f"{name:<10} {t.n_inputs:>3} {t.n_outputs:>3} {style:<5} {nodes:>6} {setup:>8.2f} "
                         f"{count:>8} {dt:>7.2f} {count / dt:>10,.0f}")
@@ -113,10 +113,10 @@ def bench_check() -> list[str]:
 
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    ap.add_argument("--save", action="store_true", help="also write docs/bench_harness.txt")
+    ap.add_argument("--save", action="store_true", help="also write docs/bench_simulation.txt")
     args = ap.parse_args()
     lines = [
-        "plaforge check throughput (python benchmarks/bench_harness.py)",
+        "plaforge check throughput (python -m benchmarks.bench_simulation)",
         machine_line(),
         "",
         "Amaranth simulator, one Cat() set and one Cat() get per vector; nodes = product terms (sop) or LUTs (lut);",
@@ -128,7 +128,7 @@ def main() -> None:
     text = "\n".join(lines) + "\n"
     sys.stdout.write(text)
     if args.save:
-        (ROOT / "docs" / "bench_harness.txt").write_text(text)
+        (ROOT / "docs" / "bench_simulation.txt").write_text(text)
 
 
 if __name__ == "__main__":
