@@ -196,16 +196,17 @@ def test_synopsis_names_every_command_option_and_argument():
 _TYPE_TABLE = next(t for t in _tables(_section("The PLA dialect")) if t[0][0] == "char")
 
 
-@pytest.mark.parametrize("pla_type", ["f", "fd", "fr", "fdr"])
+@pytest.mark.parametrize("pla_type", ["f", "fd", "fr", "fdr", "r", "dr"])
 @pytest.mark.parametrize("row", _TYPE_TABLE[1:], ids=lambda r: r[0])
 def test_output_character_table(pla_type, row):
-    # PLA format (from memory): under f/fd unmentioned combinations are OFF, under fr/fdr they are don't-care.
+    # PLA format (from memory): under f/fd unmentioned combinations are OFF, under fr/fdr they are don't-care,
+    # under r/dr (the rows list the OFF set and, for dr, the don't-cares) they are ON.
     char = row[0].strip("`")
     said = row[_TYPE_TABLE[0].index(f"`{pla_type}`")]
     t = parse_pla(f".i 1\n.o 1\n.type {pla_type}\n1 {char}\n.e\n", "t.pla")
     on, dc = t.evaluate(1)
     got = "DC" if dc & 1 else "ON" if on & 1 else "OFF"
-    unmentioned = "DC" if pla_type in ("fr", "fdr") else "OFF"
+    unmentioned = {"fr": "DC", "fdr": "DC", "r": "ON", "dr": "ON"}.get(pla_type, "OFF")
     assert got == (unmentioned if said == "nothing" else said)
     on0, dc0 = t.evaluate(0)
     assert ("DC" if dc0 & 1 else "ON" if on0 & 1 else "OFF") == unmentioned

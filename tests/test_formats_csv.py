@@ -13,6 +13,7 @@ from plaforge.core.errors import SpecError
 from plaforge.core.table import Table
 from plaforge.formats import read_spec
 from plaforge.formats.csv import parse_csv
+from plaforge.formats.pla import parse_pla
 
 
 def _value(table: Table, j: int, point: int) -> int | None:
@@ -74,7 +75,16 @@ def test_agreeing_duplicates_are_fine_and_quotes() -> None:
 
 def test_disagreeing_rows_name_both_lines() -> None:
     with pytest.raises(SpecError, match=r"d\.csv:4: rows on lines 2 and 4 disagree for output 'y' at a=1, b=1"):
-        parse_csv("a, b, >y\n1, -, 1\n0, 0, 0\n1, 1, -\n", "d.csv")
+        parse_csv("a, b, >y\n1, -, 1\n0, 0, 0\n1, 1, 0\n", "d.csv")
+
+
+def test_dont_care_cell_wins_over_a_value_as_in_pla() -> None:
+    # docs/formats.md (CSV rows, PLA types): where one row gives don't-care and another a value, don't-care wins,
+    # whatever the default; the same rows in PLA (type fdr) read the same way.
+    for default in ("0", "1", "dc"):
+        t = parse_csv(f"#! default = {default}\na, b, >y\n1, -, 1\n0, -, 0\n1, 1, -\n-, 0, -\n", "d.csv")
+        p = parse_pla(".i 2\n.o 1\n.type fdr\n1- 1\n0- 0\n11 -\n-0 -\n", "d.pla")
+        assert [_value(t, 0, v) for v in range(4)] == [None, None, 0, None] == [_value(p, 0, v) for v in range(4)]
 
 
 def test_disagreeing_bus_rows_show_pattern() -> None:

@@ -142,3 +142,16 @@ def test_wide_address_map_is_cube_level() -> None:
         on, dc, off = t.on_cubes(j), t.dc_cubes(j), t.off_cubes(j)
         assert len(on) + len(dc) + len(off) < 400
         assert cube_list_contains(list(on) + list(dc) + list(off), Cube(0, 0))
+
+
+@pytest.mark.parametrize(("pat", "points"),
+                         [("0b1x", {2, 3}), ("0b0x", {0, 1}), ("0bx", {0, 1}), ("0b1xx", {4, 5, 6, 7})])
+def test_pattern_missing_left_digits_are_zero(pat: str, points: set[int]) -> None:
+    # docs/formats.md: "missing digits on the left are 0" -- in 'when' and in 'set' alike
+    text = f'[inputs]\np = 3\n[outputs]\ny = 1\nz = 3\n[[rule]]\nwhen = {{ p = "{pat}" }}\nset = {{ y = 1 }}\n' \
+           f'[[rule]]\nset = {{ z = "0b1x" }}\n'
+    t = parse_design(text, "pat.toml")
+    assert {p for p in range(8) if t.evaluate(p)[0] & 1} == points
+    z = [t.output_names.index(f"z[{b}]") for b in range(3)]
+    on, dc = t.evaluate(0)
+    assert [(on >> j & 1, dc >> j & 1) for j in z] == [(0, 1), (1, 0), (0, 0)]  # z = 0b01x: bit 2 is 0, not free

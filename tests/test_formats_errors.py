@@ -51,6 +51,9 @@ CASES: list[tuple[str, str, str]] = [
     ("neg.pla", ".i -2\n", r"neg\.pla:1:1: \.i must not be negative"),
     ("word.pla", ".i two\n", r"word\.pla:1:1: \.i needs a whole number, not 'two'"),
     ("phase.pla", PLA_OK.replace(".p 2", ".phase 1\n.p 2"), r"phase\.pla:5: \.phase has 1 characters, expected 2"),
+    ("o0.pla", ".i 2\n.o 0\n11\n", r"o0\.pla:2:1: \.o 0 declares no outputs; expected at least one output"),
+    ("hash.pla", PLA_OK.replace(".ob y z", ".ob y#1 z"),
+     r"hash\.pla:4: \.ob gives 1 names but \.o 2 \(line 2\) says 2 \('#' starts a comment"),
     # CSV
     ("trunc.csv", "a, b, >y\n1, 0, 1\n1, 1\n", r"trunc\.csv:3: row has 2 cells but the header has 3"),
     ("char.csv", "a, b, >y\n1, 2, 1\n", r"char\.csv:2:4: '2' in bit column 'b'"),
@@ -152,3 +155,13 @@ def test_toml_shuffles_only_spec_errors(lines: list[str]) -> None:
         parse_design("\n".join(lines) + "\n", "g.toml")
     except SpecError as exc:
         assert exc.line is None or exc.line >= 1
+
+
+def test_directory_as_spec_is_one_line(tmp_path: Path) -> None:
+    # POSIX: a directory cannot be read as a file; the reader entry says so (exit 2 through the CLI, one line)
+    from plaforge.formats import read_spec
+
+    d = tmp_path / "spec.pla"
+    d.mkdir()
+    with pytest.raises(SpecError, match=r"spec\.pla: is a directory; expected a spec file"):
+        read_spec(d)

@@ -21,6 +21,8 @@ READERS = {".pla": "pla", ".csv": "csv", ".toml": "design"}
 def read_spec(path: str | os.PathLike[str]) -> Table:
     """Read a ``.pla``, ``.csv`` or ``.toml`` spec file into a Table."""
     p = Path(path)
+    if p.is_dir():
+        raise SpecError(p, None, "is a directory; expected a spec file (.pla, .csv or .toml)")
     kind = READERS.get(p.suffix.lower())
     if kind is None:
         raise SpecError(p, None, f"unknown spec extension {p.suffix!r}; expected one of .pla, .csv, .toml")

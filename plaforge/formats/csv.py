@@ -10,16 +10,17 @@ header cell
 cell
     A bit column holds ``0``, ``1``, or ``-``/``x`` (don't-care). A bus column holds a number in decimal, ``0x``
     hex or ``0b`` binary, ``-``/``x`` for all bits don't-care, or a pattern with don't-care digits: ``0b1x0x``
-    (binary digits, ``x``/``-`` free) or ``0x3x`` (hex digits, ``x`` = four free bits). A don't-care in an input cell
+    (binary digits, ``x``/``-`` free) or ``0x3x`` (hex digits, ``x`` = four free bits), missing digits on the left
+    being 0 (as for a number; :func:`plaforge.formats._numbers.pattern`). A don't-care in an input cell
     makes the row cover both values; in an output cell it makes the output don't-care for the row's combinations.
 settings
     Lines starting with ``#`` are comments. A comment line ``#! default = V`` (``V`` being ``0``, ``1`` or ``dc``)
     sets the default for every output column that does not give its own; without it the default is ``0``.
 rows
-    Each row must have as many cells as the header. Rows may overlap: if two rows share an input combination they
-    must agree on every output there (equal rows are fine); otherwise it is an error naming both lines and the
-    combination. Cells are separated by commas (by ``;`` or tabs when the header holds no comma); a cell may be
-    quoted with ``"`` but may not span lines. Blank lines are skipped.
+    Each row must have as many cells as the header. Rows may overlap: where one gives an output bit as don't-care
+    and another gives a value, don't-care wins (as in PLA); rows giving 1 and 0 for the same bit and combination are
+    an error naming both lines and the combination (equal rows are fine). Cells are separated by commas (by ``;``
+    or tabs when the header holds no comma); a cell may be quoted with ``"`` but may not span lines. Blank lines are skipped.
 
 Example::
 
@@ -40,11 +41,12 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from types import MappingProxyType
 
-from ..core.cube import Cube
+from ..core.cube import Cube, sharp
 from ..core.errors import SpecError
 from ..core.table import Bus, Table
 from ._cubes import field_cube, find_overlap
 from ._files import read_text
+from ._numbers import parse_int, pattern
 from .design import MAX_WIDTH
 
 __all__ = ["parse_csv", "read_csv"]
@@ -104,18 +106,6 @@ def _split(line: str, delim: str, path: str, lineno: int) -> list[tuple[str, int
         i += 1  # skip the delimiter
 
 
-def _number(text: str) -> int | None:
-    t = text.lower().replace("_", "")
-    try:
-        if t.startswith(("0x", "0b")):
-            return int(t, 0)
-        if t.isdigit():
-            return int(t)
-    except ValueError:
-        return None
-    return None
-
-
 def _cell_bits(text: str, col: _Column) -> tuple[int, int] | str:
     """``(care, value)`` over the column's bits, or an error message."""
     w = col.width
@@ -128,26 +118,16 @@ def _cell_bits(text: str, col: _Column) -> tuple[int, int] | str:
             return 1, int(t)
         return f"{text!r} in bit column {col.name!r}; expected 0, 1, - or x"
     fits = f"{col.name!r} is {w} bits wide (0..{top:#x})"
-    if t.startswith(("0b", "0x")) and any(ch in t[2:] for ch in "x-"):
-        per = 1 if t[1] == "b" else 4
-        digits = t[2:]
-        allowed = "01" if per == 1 else "0123456789abcdef"
-        care = value = 0
-        for ch in digits:
-            care <<= per
-            value <<= per
-            if ch in "x-":
-                continue
-            if ch not in allowed:
-                return f"{text!r} in {col.name!r}: {ch!r} is not a {'binary' if per == 1 else 'hex'} digit or x"
-            care |= (1 << per) - 1
-            value |= int(ch, 16)
+    pat = pattern(t, w)
+    if pat is not None:
+        care, value = pat
         if value > top:
             return f"{text!r} does not fit: {fits}"
-        return care & top, value
-    v = _number(t)
+        return care, value
+    v = parse_int(t)
     if v is None:
-        return f"{text!r} in bus column {col.name!r}; expected a number (12, 0xC, 0b1100), a pattern (0b1x0x) or -"
+        return (f"{text!r} in bus column {col.name!r}; expected a number (12, 0xC, 0b1100), a pattern with x or - "
+                f"digits (0b1x0x, 0x3x) or -")
     if v > top:
         return f"{text!r} does not fit: {fits}"
     return top, v
@@ -249,13 +229,15 @@ def parse_csv(text: str, path: str) -> Table:
                 ocare, oval = outs[k]
                 kind = ("1" if oval >> b & 1 else "0") if ocare >> b & 1 else "dc"
                 classes[kind].append((cube, lineno))
-            for x, y in (("1", "0"), ("1", "dc"), ("0", "dc")):
-                clash = find_overlap(classes[x], classes[y], n)
-                if clash is not None:
-                    raise _disagree(path, clash, output_names[j], x, y, in_cols)
+            clash = find_overlap(classes["1"], classes["0"], n)
+            if clash is not None:
+                raise _disagree(path, clash, output_names[j], "1", "0", in_cols)
             sets: list[tuple[Cube, ...] | None] = [
                 tuple(dict.fromkeys(Cube(c.care, c.value, bit) for c, _ in classes[kind])) for kind in ("1", "dc", "0")
             ]
+            if default == "dc" and sets[1]:  # the DC rows are dropped as "the rest": cut them out of the others
+                dcs = sets[1]
+                sets[0], sets[2] = (tuple(sharp(s, dcs)) if s else s for s in (sets[0], sets[2]))
             sets[{"1": 0, "dc": 1, "0": 2}[default]] = None
             on.append(sets[0])
             dc.append(sets[1])
@@ -330,9 +312,8 @@ def _disagree(path: str, clash: tuple[tuple[Cube, int], tuple[Cube, int]], out_n
         elif any(c for c, _ in bits):
             parts.append(f"{col.name}=0b" + "".join(str(val) if c else "x" for c, val in reversed(bits)))
     where = ", ".join(parts) or "every combination"
-    show = {"1": "1", "0": "0", "dc": "don't-care"}
     return SpecError(
         path, second,
         f"rows on lines {first} and {second} disagree for output {out_name!r} at {where}: line {first} gives "
-        f"{show[kinds[first]]}, line {second} gives {show[kinds[second]]}",
+        f"{kinds[first]}, line {second} gives {kinds[second]}",
     )

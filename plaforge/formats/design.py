@@ -70,6 +70,8 @@ from ..core.cube import Cube, sharp
 from ..core.errors import SpecError
 from ..core.table import DEFAULT_ENUM_LIMIT, Bus, Table, bool_array_to_cubes
 from ._cubes import and_lists, field_cube, place, range_cubes
+from ._numbers import parse_int as _parse_int
+from ._numbers import pattern as _pattern
 from ._toml import Locator, load_toml
 from .expr import ExprError, Expression, compile_expr, evaluate
 
@@ -96,42 +98,6 @@ class _Port:
 def _suggest(word: str, choices: list[str]) -> str:
     hint = difflib.get_close_matches(word, choices, n=1, cutoff=0.5)
     return f" (did you mean {hint[0]!r}?)" if hint else ""
-
-
-def _parse_int(s: str) -> int | None:
-    """A number written in decimal, ``0x`` hex or ``0b`` binary (underscores allowed), else ``None``."""
-    t = s.strip().lower().replace("_", "")
-    try:
-        if t.startswith(("0x", "0b", "0o")):
-            return int(t, 0)
-        if t.isdigit():
-            return int(t, 10)
-    except ValueError:
-        return None
-    return None
-
-
-def _pattern(s: str) -> tuple[int, int, int] | None:
-    """``(care, value, digits_bits)`` for ``0b..``/``0x..`` text with don't-care digits, else ``None``."""
-    t = s.strip().lower().replace("_", "")
-    if t.startswith("0b"):
-        digits, per = t[2:], 1
-        ok = set("01x-")
-    elif t.startswith("0x"):
-        digits, per = t[2:], 4
-        ok = set("0123456789abcdefx-")
-    else:
-        return None
-    if not digits or set(digits) - ok or not set(digits) & set("x-"):
-        return None
-    care = value = 0
-    for ch in digits:
-        care <<= per
-        value <<= per
-        if ch not in "x-":
-            care |= (1 << per) - 1
-            value |= int(ch, 16)
-    return care, value, len(digits) * per
 
 
 class _Reader:
@@ -329,12 +295,12 @@ class _Reader:
                 if hi > top:
                     raise self.err(where, f"range end {hi:#x} does not fit: {fits}")
                 return range_cubes(lo, hi, indices)
-            pat = _pattern(s)
+            pat = _pattern(s, w)
             if pat is not None:
-                care, val, _bits = pat
+                care, val = pat
                 if val >> w:
                     raise self.err(where, f"pattern {value!r} does not fit: {fits}")
-                return [field_cube(val, care & top, indices)]
+                return [field_cube(val, care, indices)]
             n = _parse_int(s)
             if n is None:
                 raise self.err(where, f"cannot read {value!r} as a match for {name!r}; expected a number, "
@@ -359,12 +325,12 @@ class _Reader:
             s = value.strip()
             if s.lower() in _DC_WORDS:
                 return 0, 0
-            pat = _pattern(s)
+            pat = _pattern(s, width)
             if pat is not None:
-                care, val, _ = pat
+                care, val = pat
                 if val >> width:
                     raise self.err(where, f"{what} {value!r} does not fit: {fits}")
-                return care & top, val & top
+                return care, val
             n = _parse_int(s)
             if n is not None:
                 if n > top:

@@ -4,26 +4,18 @@ Vocabulary
 ----------
 PLA file
     The open, trade-wide two-level format: directives ``.i N`` (inputs), ``.o M`` (outputs), ``.ilb`` and ``.ob``
-    (names), ``.p P`` (row count), ``.type f|fd|fr|fdr``, ``.phase`` and ``.e``/``.end``; ``#`` starts a comment.
+    (names), ``.p P`` (row count), ``.type f|fd|fr|fdr|r|dr``, ``.phase`` and ``.e``/``.end``; ``#`` starts a comment.
     Every other line is a row: an input part of N characters (``0``, ``1``, ``-``; ``x``/``X`` read as ``-``), the
     leftmost being input 0, then an output part of M characters. Whitespace may separate the two parts (or not).
 row (product term)
     An input part is a cube; its output part says, per output, what the cube means for that output.
 type
-    Which sets the rows give. Output characters per type:
-
-    ======  =====================  ========================  =====================  ==============
-    char    ``f``                  ``fd`` (default)          ``fr``                 ``fdr``
-    ======  =====================  ========================  =====================  ==============
-    ``1``   ON                     ON                        ON                     ON
-    ``0``   nothing                nothing                   OFF                    OFF
-    ``-``   nothing                don't-care                nothing                don't-care
-    ``~``   nothing                nothing                   nothing                nothing
-    ======  =====================  ========================  =====================  ==============
-
-    Points no row mentions are OFF for ``f`` and ``fd`` and don't-care for ``fr`` and ``fdr``. A point a row gives as
-    don't-care is don't-care even if another row gives it as ON or OFF. A point given as both ON and OFF for the same
-    output is a contradiction: an error naming both lines.
+    Which sets the rows give: ``f``, ``fd`` (default), ``fr``, ``fdr``, ``r`` or ``dr``; a letter in the type says
+    which output character counts (``f``: ``1`` is ON, ``r``: ``0`` is OFF, ``d``: ``-`` is don't-care; ``~`` never
+    counts). The set no letter names is "the rest": OFF without ``r``, ON without ``f``, don't-care when both are
+    there. A point a row gives as don't-care is don't-care even if another row gives it as ON or OFF. A point given
+    as both ON and OFF for the same output is a contradiction: an error naming both lines. The table of characters
+    per type is in docs/conventions.md ("The PLA dialect").
 phase
     ``.phase`` has one character per output: ``1`` the rows realize the output as written, ``0`` they realize its
     complement (for devices with programmable output polarity). Reading a spec with phase ``0`` for an output swaps
@@ -63,7 +55,7 @@ __all__ = [
 ]
 
 MAX_PORTS = 65536  # largest .i / .o accepted
-_TYPES = ("f", "fd", "fr", "fdr")
+_TYPES = ("f", "fd", "fr", "fdr", "r", "dr")
 _DIRECTIVES = (".i", ".o", ".ilb", ".ob", ".p", ".type", ".phase", ".e", ".end")
 _IN_CARE = str.maketrans("01-xX", "11000")
 _IN_VALUE = str.maketrans("01-xX", "01000")
@@ -108,14 +100,19 @@ def _int_arg(path: str, lineno: int, directive: str, args: list[str], col: int) 
         raise SpecError(path, lineno, f"{directive} needs a whole number, not {args[0]!r}", col) from None
     if v < 0:
         raise SpecError(path, lineno, f"{directive} must not be negative, got {v}", col)
+    if directive == ".o" and v == 0:
+        raise SpecError(path, lineno, ".o 0 declares no outputs; expected at least one output", col)
     if directive in (".i", ".o") and v > MAX_PORTS:
         raise SpecError(path, lineno, f"{directive} {v} is more than plaforge handles ({MAX_PORTS})", col)
     return v
 
 
-def _check_names(path: str, lineno: int, what: str, names: list[str], expected: int | None, count_dir: str) -> None:
+def _check_names(path: str, lineno: int, what: str, names: list[str], expected: int | None, count_dir: str,
+                 comment: bool) -> None:
     if expected is not None and len(names) != expected:
-        raise SpecError(path, lineno, f"{what} gives {len(names)} names but {count_dir} says {expected}")
+        hint = " ('#' starts a comment, so the names after it were dropped; names may not contain '#')" \
+            if comment and len(names) < expected else ""
+        raise SpecError(path, lineno, f"{what} gives {len(names)} names but {count_dir} says {expected}{hint}")
     seen: dict[str, int] = {}
     for k, nm in enumerate(names):
         if nm in seen:
@@ -133,8 +130,8 @@ def parse_pla_file(text: str, path: str) -> PlaFile:
     """
     n: int | None = None
     m: int | None = None
-    ilb: tuple[list[str], int] | None = None
-    ob: tuple[list[str], int] | None = None
+    ilb: tuple[list[str], int, bool] | None = None  # names, line, whether a '#' cut the line short
+    ob: tuple[list[str], int, bool] | None = None
     p_decl: tuple[int, int] | None = None
     typ = "fd"
     phase_decl: tuple[str, int] | None = None
@@ -184,13 +181,13 @@ def parse_pla_file(text: str, path: str) -> PlaFile:
             elif d == ".p":
                 p_decl = (_int_arg(path, lineno, d, args, col), lineno)
             elif d == ".ilb":
-                ilb = (args, lineno)
+                ilb = (args, lineno, "#" in raw)
             elif d == ".ob":
-                ob = (args, lineno)
+                ob = (args, lineno, "#" in raw)
             elif d == ".type":
                 if len(args) != 1 or args[0].lower() not in _TYPES:
                     got = " ".join(args) or "nothing"
-                    raise SpecError(path, lineno, f".type {got!r} is not known; expected f, fd, fr or fdr", col)
+                    raise SpecError(path, lineno, f".type {got!r} is not known; expected f, fd, fr, fdr, r or dr", col)
                 typ = args[0].lower()
             elif d == ".phase":
                 if len(args) != 1 or set(args[0]) - {"0", "1"}:
@@ -263,12 +260,12 @@ def parse_pla_file(text: str, path: str) -> PlaFile:
             f".p says {p_decl[0]} rows but the file has {len(rows)}; is the file truncated? fix .p or the rows",
         )
     if ilb is not None:
-        _check_names(path, ilb[1], ".ilb", ilb[0], n, f".i {n} (line {seen_dirs['.i']})")
+        _check_names(path, ilb[1], ".ilb", ilb[0], n, f".i {n} (line {seen_dirs['.i']})", ilb[2])
         in_names = tuple(ilb[0])
     else:
         in_names = tuple(f"x[{i}]" for i in range(n))
     if ob is not None:
-        _check_names(path, ob[1], ".ob", ob[0], m, f".o {m} (line {seen_dirs['.o']})")
+        _check_names(path, ob[1], ".ob", ob[0], m, f".o {m} (line {seen_dirs['.o']})", ob[2])
         out_names = tuple(ob[0])
     else:
         out_names = tuple(f"y[{j}]" for j in range(m))
@@ -318,9 +315,9 @@ def parse_pla(text: str, path: str) -> Table:
     t = pf.type
     for j in range(m):
         bit = 1 << j
-        f_rows = [(c, ln) for c, ln, ones, _z, _d in pf.rows if ones & bit]
-        r_rows = [(c, ln) for c, ln, _o, zeros, _d in pf.rows if zeros & bit] if t in ("fr", "fdr") else []
-        d_rows = [(c, ln) for c, ln, _o, _z, dashes in pf.rows if dashes & bit] if t in ("fd", "fdr") else []
+        f_rows = [(c, ln) for c, ln, ones, _z, _d in pf.rows if ones & bit] if "f" in t else []
+        r_rows = [(c, ln) for c, ln, _o, zeros, _d in pf.rows if zeros & bit] if "r" in t else []
+        d_rows = [(c, ln) for c, ln, _o, _z, dashes in pf.rows if dashes & bit] if "d" in t else []
         clash = find_overlap(f_rows, r_rows, n)
         if clash is not None:
             (c1, l1), (c2, l2) = sorted(clash, key=lambda x: x[1])
@@ -335,13 +332,12 @@ def parse_pla(text: str, path: str) -> Table:
         f = tuple(Cube(c.care, c.value, bit) for c, _ in f_rows)
         r = tuple(Cube(c.care, c.value, bit) for c, _ in r_rows)
         d = tuple(Cube(c.care, c.value, bit) for c, _ in d_rows)
-        if t == "f":
-            s_on, s_dc, s_off = f, (), None
-        elif t == "fd":
+        # the set no row gives is "the rest": OFF without r, ON without f, otherwise DC
+        if "r" not in t:
             s_on, s_dc, s_off = f, d, None
-        elif t == "fr":
-            s_on, s_dc, s_off = f, None, r
-        else:  # fdr: explicit don't-cares win over ON/OFF rows; unmentioned points are don't-care
+        elif "f" not in t:
+            s_on, s_dc, s_off = None, d, r
+        else:  # explicit don't-cares win over ON/OFF rows; unmentioned points are don't-care
             s_on = tuple(sharp(f, d)) if d else f
             s_off = tuple(sharp(r, d)) if d else r
             s_dc = None
