@@ -33,6 +33,9 @@ class MinimizeOptions:
         :mod:`plaforge.minimize.child`).
     exact_limit : int
         Most inputs the exact path accepts (it enumerates the 3**n cubes).
+    memory_limit : int
+        Megabytes the exact path may plan to use for its primes and covering problem; a step estimated above it is
+        refused with :class:`plaforge.core.errors.SizeLimit` naming ``--memory-limit``.
     """
 
     exact: bool = False
@@ -42,11 +45,14 @@ class MinimizeOptions:
     progress: bool = False
     isolate: bool = True
     exact_limit: int = 14
+    memory_limit: int = 2048
 
     def __post_init__(self) -> None:
         if self.cost not in ("shared", "per-output"):
             raise ValueError(f"cost must be 'shared' or 'per-output', not {self.cost!r}")
         if not self.time_limit > 0:
             raise ValueError(f"time_limit must be positive seconds, not {self.time_limit!r}")
+        if not self.memory_limit > 0:
+            raise ValueError(f"memory_limit must be positive megabytes, not {self.memory_limit!r}")
         if not 1 <= self.exact_limit <= 20:
             raise ValueError(f"exact_limit must be between 1 and 20 inputs, not {self.exact_limit!r}")
