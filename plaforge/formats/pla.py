@@ -197,7 +197,7 @@ def parse_pla_file(text: str, path: str) -> PlaFile:
         # a row
         ni, mo = ready(lineno)
         words = stripped.split()
-        if len(words) == 2 and ni > 0:
+        if len(words) == 2 and ni > 0 and (len(words[0]) == ni or len(words[0]) + len(words[1]) != ni + mo):
             inp, out = words
             in_col = lead + 1
             out_col = line.index(out, lead + len(inp)) + 1
