@@ -16,7 +16,7 @@ from pathlib import Path
 
 from .checking import check_artifact
 from .core.cube import Cover
-from .core.fileio import write_text_atomic
+from .core.fileio import make_directory, refuse_clobbering, write_text_atomic
 from .core.names import identifier
 from .core.network import LutNetwork
 from .core.table import Table
@@ -166,30 +166,33 @@ def build(
     ``spec_path``, when given, is the spec file whose SHA-256 the generated modules quote.
     """
     opts = options or BuildOptions()
-    out = Path(out_dir)
-    out.mkdir(parents=True, exist_ok=True)
+    out = make_directory(out_dir)
     stem = _stem(table)
+    paths = {"cover": out / f"{stem}.pla", "luts": out / f"{stem}.luts.json", "module_sop": out / f"{stem}_sop.py",
+             "module_lut": out / f"{stem}_lut.py", "harness": out / f"test_{stem}.py", "verilog": out / f"{stem}.v"}
+    if spec_path is not None:  # before any work: no artifact may land on the spec
+        refuse_clobbering([("SPEC", spec_path)], [(f"the {key} artifact", p) for key, p in paths.items()])
     source_name = Path(table.source).name if table.source else ""
     digest = spec_digest(spec_path) if spec_path is not None and Path(spec_path).is_file() else ""
 
     minimize_options = MinimizeOptions(exact=opts.exact, cost=opts.cost, time_limit=opts.time_limit)
     cover = realize(table, "sop", minimize_options=minimize_options)
     res = BuildResult(table, cover, None)
-    res.artifacts["cover"] = write_text_atomic(out / f"{stem}.pla", write_pla(cover, source_name or None))
+    res.artifacts["cover"] = write_text_atomic(paths["cover"], write_pla(cover, source_name or None))
 
     net = realize(table, "lut", cover=cover, k=opts.k)
     res.network = net
-    res.artifacts["luts"] = write_text_atomic(out / f"{stem}.luts.json", net.to_json())
+    res.artifacts["luts"] = write_text_atomic(paths["luts"], net.to_json())
 
     sop_src = module_source(table, cover, source_name=source_name, source_digest=digest)
-    res.artifacts["module_sop"] = write_text_atomic(out / f"{stem}_sop.py", sop_src)
+    res.artifacts["module_sop"] = write_text_atomic(paths["module_sop"], sop_src)
     lut_src = module_source(table, net, source_name=source_name, source_digest=digest)
-    res.artifacts["module_lut"] = write_text_atomic(out / f"{stem}_lut.py", lut_src)
+    res.artifacts["module_lut"] = write_text_atomic(paths["module_lut"], lut_src)
     res.artifacts["harness"] = write_text_atomic(
-        out / f"test_{stem}.py", harness_source(table, f"{stem}_sop", source_name=source_name)
+        paths["harness"], harness_source(table, f"{stem}_sop", source_name=source_name)
     )
     if opts.verilog:
-        res.artifacts["verilog"] = write_text_atomic(out / f"{stem}.v", verilog_source(sop_src, stem))
+        res.artifacts["verilog"] = write_text_atomic(paths["verilog"], verilog_source(sop_src, stem))
 
     for key in ("cover", "luts", "module_sop", "module_lut"):
         res.verdicts[key] = check_artifact(table, res.artifacts[key])

@@ -14,8 +14,8 @@ from .group import cli
 
 
 @cli.command("build")
-@click.argument("spec", type=click.Path(dir_okay=False))
-@click.option("-o", "--output", "out", type=click.Path(file_okay=False), default="build", show_default=True,
+@click.argument("spec", type=click.Path())
+@click.option("-o", "--output", "out", type=click.Path(), default="build", show_default=True,
               help="Directory for the artifacts.")
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT input count.")
 @click.option("--exact", is_flag=True, help="Prove a minimum cover instead of the fast heuristic.")

@@ -9,8 +9,8 @@ from .group import cli
 
 
 @cli.command("check")
-@click.argument("spec", type=click.Path(dir_okay=False))
-@click.argument("artifact", type=click.Path(dir_okay=False))
+@click.argument("spec", type=click.Path())
+@click.argument("artifact", type=click.Path())
 @click.option("--exhaustive-limit", type=click.IntRange(0, 24), default=16, show_default=True,
               help="Simulate every input point of a module up to this many inputs.")
 @click.option("--samples", type=click.IntRange(0), default=4096, show_default=True,

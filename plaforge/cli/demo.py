@@ -15,7 +15,7 @@ DEMO_SAMPLE = "memory_map.toml"
 
 
 @cli.command("demo")
-@click.option("-o", "--output", "out", type=click.Path(file_okay=False), default="plaforge-demo", show_default=True,
+@click.option("-o", "--output", "out", type=click.Path(), default="plaforge-demo", show_default=True,
               help="Directory for the artifacts.")
 def demo_cmd(out: str) -> None:
     """Take the bundled memory-map sample through minimization, LUT mapping, module and Verilog generation, and

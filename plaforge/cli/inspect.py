@@ -10,7 +10,7 @@ from .group import cli
 
 
 @cli.command("inspect")
-@click.argument("spec", type=click.Path(dir_okay=False))
+@click.argument("spec", type=click.Path())
 def inspect_cmd(spec: str) -> None:
     """Read SPEC and print its ports, each output's support and its ON/DC/OFF sizes."""
     click.echo(table_summary(read_spec(spec)))

@@ -10,15 +10,15 @@ from .group import cli
 
 
 @cli.command("luts")
-@click.argument("spec", type=click.Path(dir_okay=False))
+@click.argument("spec", type=click.Path())
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT input count.")
-@click.option("-o", "--output", "out", type=click.Path(dir_okay=False), help="Write the LUT network JSON here.")
+@click.option("-o", "--output", "out", type=click.Path(), help="Write the LUT network JSON here.")
 @click.option("--json", "as_json", is_flag=True, help="Print the LUT network JSON object and nothing else.")
 @click.option("--init-format", "init_format", type=click.Choice(["verilog", "python", "bits"]), default="python",
               show_default=True, help="How the listing writes INITs: sized hex literal, 0x integer, or bit string.")
 @click.option("--pad", is_flag=True,
               help="In the listing and C header, give every INIT for a full k-input LUT (unused upper pins).")
-@click.option("--c-header", "c_header_path", type=click.Path(dir_okay=False),
+@click.option("--c-header", "c_header_path", type=click.Path(),
               help="Also write a C header with every INIT as a constant.")
 @click.option("--objective", type=click.Choice(["area", "depth"]), default="area", show_default=True,
               help="Prefer fewer LUTs or fewer levels when the mapper has a choice.")
@@ -29,12 +29,13 @@ def luts_cmd(spec: str, k: int, out: str | None, as_json: bool, init_format: str
     Every output is re-checked against SPEC (exhaustively, or with a SAT proof for wide tables) before anything
     is written.
     """
-    from ..core.fileio import write_text_atomic
+    from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..formats import read_spec
     from ..lut import LutOptions, c_header, format_listing, map_luts
     from ..lut.export import padded_network
     from ..minimize import minimize
 
+    refuse_clobbering([("SPEC", spec)], [("-o", out), ("--c-header", c_header_path)])
     table = read_spec(spec)
     net = map_luts(table, minimize(table), k, LutOptions(objective=objective))  # type: ignore[arg-type]
     if out is not None:

@@ -11,8 +11,8 @@ from .group import cli
 
 
 @cli.command("minimize")
-@click.argument("spec", type=click.Path(dir_okay=False))
-@click.option("-o", "--output", "out", type=click.Path(dir_okay=False), help="Write the PLA cover here.")
+@click.argument("spec", type=click.Path())
+@click.option("-o", "--output", "out", type=click.Path(), help="Write the PLA cover here.")
 @click.option("--exact", is_flag=True, help="Prove a minimum cover (CP-SAT) instead of the fast heuristic.")
 @click.option("--time-limit", type=click.FloatRange(min=0.1), default=60.0, show_default=True,
               help="Seconds the exact solver may spend; past it the best cover and lower bound are reported.")
@@ -23,11 +23,12 @@ from .group import cli
 def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, cost: str, phase: bool,
                  as_json: bool) -> None:
     """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
-    from ..core.fileio import write_text_atomic
+    from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..formats import read_spec
     from ..formats.pla import write_pla
     from ..minimize import MinimizeOptions, cover_summary, format_summary, minimize
 
+    refuse_clobbering([("SPEC", spec)], [("-o", out)])
     table = read_spec(spec)
     options = MinimizeOptions(exact=exact, time_limit=time_limit, cost=cost,  # type: ignore[arg-type]
                               phase=phase, progress=exact and sys.stderr.isatty())

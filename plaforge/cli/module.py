@@ -12,19 +12,19 @@ from .group import cli
 
 
 @cli.command("module")
-@click.argument("spec", type=click.Path(dir_okay=False))
-@click.option("-o", "--output", "out", type=click.Path(dir_okay=False),
+@click.argument("spec", type=click.Path())
+@click.option("-o", "--output", "out", type=click.Path(),
               help="Write the Amaranth module here (default: print it).")
-@click.option("--verilog", "verilog", type=click.Path(dir_okay=False), help="Also write Verilog here.")
+@click.option("--verilog", "verilog", type=click.Path(), help="Also write Verilog here.")
 @click.option("--style", type=click.Choice(STYLES), default="sop", show_default=True,
               help="sop: shared product terms; lut: one constant per LUT.")
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT size for --style lut.")
-@click.option("--harness", "harness", type=click.Path(dir_okay=False),
+@click.option("--harness", "harness", type=click.Path(),
               help="Also write a stand-alone pytest file that simulates the module against SPEC (needs -o; keep "
                    "both files in one directory).")
 def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, harness: str | None) -> None:
     """Generate an Amaranth component implementing SPEC."""
-    from ..core.fileio import write_text_atomic
+    from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..emit.amaranth import module_source
     from ..flow import realize, spec_digest
     from ..formats import read_spec
@@ -33,6 +33,7 @@ def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: i
         raise PlaforgeError("--harness imports the module from its own directory; give the module file with -o")
     if out is not None and not out.endswith(".py"):
         raise PlaforgeError(f"module file {out!r} must end in .py so it can be imported")
+    refuse_clobbering([("SPEC", spec)], [("-o", out), ("--verilog", verilog), ("--harness", harness)])
     table = read_spec(spec)
     artifact = realize(table, style, k=k)
     source = module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec))

@@ -1,4 +1,5 @@
-"""Atomic artifact writing: nothing half-written is ever left behind, and file modes follow POSIX custom.
+"""Artifact writing: nothing half-written is ever left behind, no input is ever overwritten, and file modes follow
+POSIX custom.
 
 An artifact is written to a temporary file in the target's directory and renamed over the target, so a reader sees
 either the old file or the whole new one. The temporary file is created with mode 0600, so before the rename it is
@@ -12,11 +13,12 @@ import os
 import stat
 import tempfile
 import threading
+from collections.abc import Sequence
 from pathlib import Path
 
 from .errors import PlaforgeError
 
-__all__ = ["current_umask", "write_text_atomic"]
+__all__ = ["current_umask", "make_directory", "refuse_clobbering", "same_file", "write_text_atomic"]
 
 _UMASK_LOCK = threading.Lock()
 
@@ -66,6 +68,8 @@ def write_text_atomic(path: str | os.PathLike[str], text: str) -> Path:
     p = Path(path)
     directory = p.parent if str(p.parent) else Path(".")
     if not directory.is_dir():
+        if directory.exists():
+            raise PlaforgeError(f"{p}: {str(directory)!r} is not a directory; choose another path")
         raise PlaforgeError(f"{p}: directory {str(directory)!r} does not exist; create it or choose another path")
     mode = _target_mode(p)
     try:
@@ -83,4 +87,61 @@ def write_text_atomic(path: str | os.PathLike[str], text: str) -> Path:
         except OSError:
             pass
         raise
+    return p
+
+
+def same_file(a: str | os.PathLike[str], b: str | os.PathLike[str]) -> bool:
+    """Whether two paths name one file: equal once resolved (symbolic links, ``..``), or hard links of one file."""
+    if os.path.normcase(os.path.realpath(a)) == os.path.normcase(os.path.realpath(b)):
+        return True
+    try:
+        return os.path.samefile(a, b)
+    except OSError:  # one of them does not exist (yet): then only equal resolved paths are the same file
+        return False
+
+
+def refuse_clobbering(inputs: Sequence[tuple[str, str | os.PathLike[str]]],
+                      outputs: Sequence[tuple[str, str | os.PathLike[str] | None]]) -> None:
+    """Refuse, before any work, outputs that would overwrite an input or each other.
+
+    Parameters
+    ----------
+    inputs, outputs : sequence of (label, path)
+        ``label`` is what the user typed to give the path (``"SPEC"``, ``"-o"``, ``"--verilog"``); outputs given
+        as ``None`` are not written and are skipped.
+
+    Raises
+    ------
+    PlaforgeError
+        Naming both paths and both labels (exit status 2).
+    """
+    given = [(label, p) for label, p in outputs if p is not None]
+    for k, (label, p) in enumerate(given):
+        for in_label, q in inputs:
+            if same_file(p, q):
+                raise PlaforgeError(f"{label} {os.fspath(p)} is {in_label} {os.fspath(q)}; writing it would destroy "
+                                    f"the input, choose another output path")
+        for other_label, q in given[:k]:
+            if same_file(p, q):
+                raise PlaforgeError(f"{other_label} {os.fspath(q)} and {label} {os.fspath(p)} are the same file; "
+                                    f"give each output its own path")
+
+
+def make_directory(path: str | os.PathLike[str]) -> Path:
+    """``path`` as a writable directory, created (with its parents) if missing.
+
+    Raises
+    ------
+    PlaforgeError
+        If a file is in the way, the directory cannot be created, or it cannot be written (exit status 2).
+    """
+    p = Path(path)
+    try:
+        p.mkdir(parents=True, exist_ok=True)
+    except FileExistsError:
+        raise PlaforgeError(f"{p}: exists and is not a directory; choose another output directory") from None
+    except OSError as exc:
+        raise PlaforgeError(f"{p}: cannot create the directory ({exc.strerror})") from None
+    if not os.access(p, os.W_OK | os.X_OK):
+        raise PlaforgeError(f"{p}: the directory is not writable; choose another output directory")
     return p
