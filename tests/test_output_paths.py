@@ -160,3 +160,21 @@ def test_permission_errors_are_one_line_even_as_root(tmp_path: Path, monkeypatch
     monkeypatch.setattr(tempfile, "mkstemp", denied)
     _one_line_exit_2(["minimize", str(spec), "-o", str(tmp_path / "c.pla")], "cannot write here (Permission denied)")
     assert spec.read_text() == SPEC
+
+
+def test_interrupt_while_writing_leaves_the_old_file_and_no_temporary(tmp_path: Path,
+                                                                        monkeypatch: pytest.MonkeyPatch) -> None:
+    # POSIX rename(2) is atomic: until it runs the target is the old file; an interrupt before it leaves nothing new
+    from plaforge.core.fileio import write_text_atomic
+
+    target = tmp_path / "cover.pla"
+    target.write_text("old\n")
+
+    def interrupted(*_a: object) -> None:  # Ctrl-C after the text is written, before the rename
+        raise KeyboardInterrupt
+
+    monkeypatch.setattr(os, "fchmod", interrupted)
+    with pytest.raises(KeyboardInterrupt, match=r"^$"):
+        write_text_atomic(target, "new\n" * 1000)
+    monkeypatch.undo()
+    assert target.read_text() == "old\n" and sorted(os.listdir(tmp_path)) == ["cover.pla"]

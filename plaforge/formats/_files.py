@@ -17,7 +17,7 @@ def read_text(path: str | os.PathLike[str]) -> str:
     except FileNotFoundError:
         raise SpecError(path, None, "no such file") from None
     except IsADirectoryError:
-        raise SpecError(path, None, "is a directory, expected a spec file") from None
+        raise SpecError(path, None, "is a directory, expected a file") from None
     except UnicodeDecodeError as exc:
         raise SpecError(path, None, f"not UTF-8 text (byte {exc.start}); expected a text file") from None
     except OSError as exc:
