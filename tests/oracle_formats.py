@@ -9,6 +9,8 @@ documented syntax only (what the generators produce), not as a full validator.
 
 from __future__ import annotations
 
+import ast
+import math
 import tomllib
 from dataclasses import dataclass, field
 
@@ -233,6 +235,80 @@ def read_csv(text: str) -> Spec:
     return spec
 
 
+# --- expressions (docs/formats.md, "Expression outputs") ----------------------------------------------------------
+
+_CONST = {"pi": math.pi, "tau": math.tau, "e": math.e, "True": 1, "False": 0}
+
+
+def _int(x: float) -> int:
+    if isinstance(x, float):
+        raise Invalid("integer operator on a float")
+    return x
+
+
+def _eval(node: ast.AST, env: dict[str, int]) -> int | float:
+    """One point's value, by the documented meaning of each construct (Python's operators)."""
+    if isinstance(node, ast.Expression):
+        return _eval(node.body, env)
+    if isinstance(node, ast.Constant):
+        return int(node.value) if isinstance(node.value, bool) else node.value
+    if isinstance(node, ast.Name):
+        return env[node.id] if node.id in env else _CONST[node.id]
+    if isinstance(node, ast.UnaryOp):
+        v = _eval(node.operand, env)
+        if isinstance(node.op, ast.Not):
+            return int(not v)
+        if isinstance(node.op, ast.Invert):
+            return ~_int(v)
+        return -v if isinstance(node.op, ast.USub) else v
+    if isinstance(node, ast.BoolOp):  # "giving 0/1"
+        vals = [bool(_eval(v, env)) for v in node.values]
+        return int(all(vals) if isinstance(node.op, ast.And) else any(vals))
+    if isinstance(node, ast.Compare):
+        left = _eval(node.left, env)
+        ok = True
+        for op, right_node in zip(node.ops, node.comparators):
+            right = _eval(right_node, env)
+            ok = ok and {ast.Lt: left < right, ast.LtE: left <= right, ast.Gt: left > right,
+                         ast.GtE: left >= right, ast.Eq: left == right, ast.NotEq: left != right}[type(op)]
+            left = right
+        return int(ok)
+    if isinstance(node, ast.IfExp):  # "only the chosen side is evaluated"
+        return _eval(node.body if _eval(node.test, env) else node.orelse, env)
+    if isinstance(node, ast.BinOp):
+        a, b = _eval(node.left, env), _eval(node.right, env)
+        op = type(node.op)
+        if op in (ast.Div, ast.FloorDiv, ast.Mod) and b == 0:
+            raise Invalid("division by zero")
+        if op in (ast.LShift, ast.RShift, ast.BitAnd, ast.BitOr, ast.BitXor):
+            a, b = _int(a), _int(b)
+        return {ast.Add: lambda: a + b, ast.Sub: lambda: a - b, ast.Mult: lambda: a * b, ast.Div: lambda: a / b,
+                ast.FloorDiv: lambda: a // b, ast.Mod: lambda: a % b, ast.Pow: lambda: a ** b,
+                ast.LShift: lambda: a << b, ast.RShift: lambda: a >> b, ast.BitAnd: lambda: a & b,
+                ast.BitOr: lambda: a | b, ast.BitXor: lambda: a ^ b}[op]()
+    if isinstance(node, ast.Call):
+        name = node.func.id  # type: ignore[attr-defined]
+        args = [_eval(a, env) for a in node.args]
+        if name in ("isqrt", "popcount", "sqrt") and args[0] < 0:
+            raise Invalid(f"{name} of a negative number")
+        return {"abs": lambda: abs(args[0]), "min": lambda: min(args), "max": lambda: max(args),
+                "clamp": lambda: min(max(args[0], args[1]), args[2]), "isqrt": lambda: math.isqrt(_int(args[0])),
+                "sqrt": lambda: math.sqrt(args[0]), "floor": lambda: math.floor(args[0]),
+                "ceil": lambda: math.ceil(args[0]),
+                "round": lambda: math.floor(args[0] + 0.5),  # "halves round up"
+                "popcount": lambda: _int(args[0]).bit_count()}[name]()
+    raise Invalid(f"not in the language: {type(node).__name__}")
+
+
+def _expression(source: str, env: dict[str, int], width: int, must_fit: bool) -> int:
+    v = _eval(ast.parse(source.strip(), mode="eval"), env)
+    if isinstance(v, float):
+        raise Invalid("a float result must go through round, floor or ceil")
+    if must_fit and not 0 <= v < 2 ** width:
+        raise Invalid("does not fit")
+    return v
+
+
 # --- TOML design files -----------------------------------------------------------------------------------------------
 
 def _ports(table: dict) -> list[tuple[str, int, dict]]:
@@ -315,9 +391,15 @@ def read_toml(text: str) -> Spec:
             for b, v in enumerate(_set_bits(value, w)):
                 given[out_at[port][0] + lo + b] = v
         sets.append(given)
+    exprs = [(out_at[name][0], w, opts) for name, w, opts in outs if "expr" in opts]
     for point in range(2 ** off):
         values = list(defaults)
         decided = [False] * len(values)
+        env = {name: (point >> at) & (2 ** w - 1) for name, (at, w) in in_at.items()}
+        for k0, w, opts in exprs:  # "expr gives the value wherever no rule decides it; dc marks don't-cares"
+            v = _expression(opts["expr"], env, w, True)
+            free = "dc" in opts and _expression(opts["dc"], env, w, False) != 0
+            values[k0:k0 + w] = [None if free else (v >> b) & 1 for b in range(w)]
         for rule, given in zip(rules, sets):
             ok = True
             for key, value in rule.get("when", {}).items():

@@ -2,7 +2,8 @@
 by plaforge and by tests/oracle_formats.py (an independent, point-by-point reading written from docs/formats.md
 alone). They must agree on every input combination of every output, and on whether the file is malformed.
 
-Figures (2 shared cores, measured): 300 generated specs per format, 900 in all, about 20 s for the three tests.
+Figures (2 shared cores, measured): 300 generated specs per format (TOML ones with expression outputs too), 900
+in all, about 22 s for the three tests.
 """
 
 from __future__ import annotations
@@ -174,7 +175,8 @@ def test_csv_reader_agrees_with_docs(text: str) -> None:
 def _match_value(draw, width: int, in_list: bool = False) -> str:
     """One documented 'when' form over a field of ``width`` bits, as TOML source."""
     top = (1 << width) - 1
-    kinds = ["int", "str", "range", "pattern", "mask"] + (["bool"] if width == 1 else []) + ([] if in_list else ["list"])
+    kinds = ["int", "str", "range", "pattern", "mask"] + (["bool"] if width == 1 else [])
+    kinds += [] if in_list else ["list"]
     kind = draw(st.sampled_from(kinds))
     if kind == "int":
         return str(draw(st.integers(0, top if draw(st.integers(0, 15)) else 2 * top + 1)))
@@ -216,6 +218,63 @@ def _key(draw, name: str, width: int) -> tuple[str, int]:
     return f'"{name}[{hi}:{lo}]"', hi - lo + 1
 
 
+def _expr(draw, ports: list[tuple[str, int]], depth: int) -> str:
+    """An expression of the documented language (small values: no operand may approach 2**62)."""
+    if depth == 0 or draw(st.integers(0, 3)) == 0:
+        kind = draw(st.sampled_from(["const", "port", "port", "bool", "power"]))
+        if kind == "const":
+            return str(draw(st.integers(0, 15)))
+        if kind == "bool":
+            return draw(st.sampled_from(["True", "False"]))
+        port = draw(st.sampled_from(ports))[0]
+        return f"{port} ** {draw(st.integers(0, 2))}" if kind == "power" else port
+    sub = lambda: _expr(draw, ports, depth - 1)
+    kind = draw(st.sampled_from(["bin", "bin", "cmp", "bool", "unary", "if", "call", "float", "guard"]))
+    if kind == "bin":
+        op = draw(st.sampled_from(["+", "-", "*", "&", "|", "^", "<<", ">>", "//", "%"]))
+        right = str(draw(st.integers(0, 3) if op in ("<<", ">>") else st.integers(1, 5))) \
+            if op in ("<<", ">>", "//", "%") else sub()
+        return f"({sub()} {op} {right})"
+    if kind == "cmp":
+        ops = draw(st.lists(st.sampled_from(["<", "<=", "==", "!=", ">", ">="]), min_size=1, max_size=2))
+        return "(" + sub() + "".join(f" {op} {sub()}" for op in ops) + ")"
+    if kind == "bool":
+        return f"({sub()} {draw(st.sampled_from(['and', 'or']))} {sub()})"
+    if kind == "unary":
+        return f"({draw(st.sampled_from(['-', '~', 'not ']))}{sub()})"
+    if kind == "if":
+        return f"({sub()} if {sub()} else {sub()})"
+    if kind == "guard":  # only the chosen side is evaluated: no division by zero
+        d = sub()
+        return f"({sub()} // {d} if {d} else {sub()})"
+    if kind == "float":
+        f = draw(st.sampled_from(["round", "floor", "ceil"]))
+        inner = draw(st.sampled_from([f"{sub()} / {draw(st.integers(1, 4))}", f"sqrt(abs({sub()}))", f"{sub()} * pi"]))
+        return f"{f}({inner})"
+    f = draw(st.sampled_from(["abs", "min", "max", "clamp", "popcount", "isqrt"]))
+    if f in ("min", "max"):
+        return f"{f}({', '.join(sub() for _ in range(draw(st.integers(2, 3))))})"
+    if f == "clamp":
+        lo = draw(st.integers(-3, 8))
+        return f"clamp({sub()}, {lo}, {lo + draw(st.integers(0, 8))})"
+    if f in ("popcount", "isqrt"):
+        return f"{f}(abs({sub()}))"
+    return f"abs({sub()})"
+
+
+def _expr_output(draw, ins: list[tuple[str, int]], w: int) -> str:
+    used = draw(st.lists(st.sampled_from(ins), min_size=1, max_size=len(ins), unique=True))
+    body = _expr(draw, used, draw(st.integers(1, 3)))
+    top = (1 << w) - 1
+    wrap = draw(st.sampled_from(["mask", "mask", "clamp", "raw", "div"]))
+    expr = {"mask": f"({body}) & {top}", "clamp": f"clamp({body}, 0, {top})", "raw": body,
+            "div": f"(({body}) & {top}) / 1"}[wrap]  # a float result, even a whole one, is refused
+    text = f"expr = \"{expr}\""
+    if draw(st.booleans()):
+        text += f", dc = \"{_expr(draw, used, 1)} == {draw(st.integers(0, 3))}\""
+    return text
+
+
 @st.composite
 def toml_text(draw) -> str:
     n_ports = draw(st.integers(1, 3))
@@ -228,10 +287,13 @@ def toml_text(draw) -> str:
     lines += [f"{name} = {w}" if draw(st.booleans()) else f"{name} = {{ width = {w} }}" for name, w in ins]
     lines.append("[outputs]")
     for name, w in outs:
-        if draw(st.booleans()):
+        form = draw(st.sampled_from(["plain", "default", "expr"]))
+        if form == "plain":
             lines.append(f"{name} = {w}")
-        else:
+        elif form == "default":
             lines.append(f"{name} = {{ width = {w}, default = {_set_value(draw, w)} }}")
+        else:
+            lines.append(f"{name} = {{ width = {w}, {_expr_output(draw, ins, w)} }}")
     for _ in range(draw(st.integers(0, 5))):
         when = []
         for name, w in draw(st.lists(st.sampled_from(ins), max_size=2, unique=True)):
