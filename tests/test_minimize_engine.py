@@ -20,7 +20,8 @@ from plaforge.minimize.child import run_isolated
 from plaforge.minimize.heuristic import decode_row, encode_cube
 from plaforge.minimize.result import verify_cover
 
-CONTRACT_KEYS = ["inputs", "outputs", "rows", "terms", "literals", "method", "optimal", "lower_bound", "seconds"]
+CONTRACT_KEYS = ["inputs", "outputs", "rows", "terms", "terms_total", "literals", "method", "cost", "optimal",
+                 "lower_bound", "inverted", "stopped_early", "seconds"]
 
 ADDER_PLA = """\
 .i 3
@@ -118,10 +119,11 @@ def test_options_validate() -> None:
         minimize("table.pla")  # type: ignore[arg-type]
 
 
-def test_exact_refuses_wide_tables() -> None:
-    names = tuple(f"a[{i}]" for i in range(20))
-    t = Table(names, ("y",), ((Cube.parse("1" * 20),),), ((),), (None,))
-    with pytest.raises(SizeLimit, match="exact path"):
+def test_exact_refuses_hopeless_sizes() -> None:
+    # 40 inputs, y = a0 xor a1 (two ON cubes of 2^38 points each): the point-based covering matrix cannot fit
+    names = tuple(f"a[{i}]" for i in range(40))
+    t = Table(names, ("y",), ((Cube.parse("10" + "-" * 38), Cube.parse("01" + "-" * 38)),), ((),), (None,))
+    with pytest.raises(SizeLimit, match="--memory-limit"):
         minimize(t, MinimizeOptions(exact=True))
 
 

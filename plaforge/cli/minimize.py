@@ -15,13 +15,16 @@ from .group import cli
 @click.option("-o", "--output", "out", type=click.Path(), help="Write the PLA cover here.")
 @click.option("--exact", is_flag=True, help="Prove a minimum cover (CP-SAT) instead of the fast heuristic.")
 @click.option("--time-limit", type=click.FloatRange(min=0.1), default=60.0, show_default=True,
-              help="Seconds the exact solver may spend; past it the best cover and lower bound are reported.")
+              help="Seconds the whole minimization may spend; past it the exact path reports its best cover and "
+              "lower bound.")
+@click.option("--memory-limit", type=click.IntRange(min=1), default=2048, show_default=True,
+              help="Megabytes the exact path may plan for its primes and covering problem.")
 @click.option("--cost", type=click.Choice(["shared", "per-output"]), default="shared", show_default=True,
               help="shared: count distinct product terms; per-output: count terms per output (no sharing).")
 @click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else.")
-def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, cost: str, phase: bool,
-                 as_json: bool) -> None:
+def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, memory_limit: int, cost: str,
+                 phase: bool, as_json: bool) -> None:
     """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
     from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..formats import read_spec
@@ -31,7 +34,7 @@ def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, cos
     refuse_clobbering([("SPEC", spec)], [("-o", out)])
     table = read_spec(spec)
     options = MinimizeOptions(exact=exact, time_limit=time_limit, cost=cost,  # type: ignore[arg-type]
-                              phase=phase, progress=exact and sys.stderr.isatty())
+                              phase=phase, progress=exact and sys.stderr.isatty(), memory_limit=memory_limit)
     cover = minimize(table, options)
     if out is not None:
         write_text_atomic(out, write_pla(cover, spec))

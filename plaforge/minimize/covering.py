@@ -1,22 +1,6 @@
 """Multi-output prime implicants and the covering problem over them, with its reductions and cheap bounds.
 
-Multi-output primes
--------------------
-Let ``F_j = ON_j ∪ DC_j`` (as point sets) and, for a cube ``c``, let its *tag* be
-``S(c) = {j : c ⊆ F_j}``: the outputs ``c`` may feed without reaching an OFF point. Tags are antitone (``c ⊆ d``
-implies ``S(d) ⊆ S(c)``). A *multi-output prime* is a cube with ``S(c) ≠ ∅`` none of whose one-literal expansions
-``d`` keeps the whole tag (``S(d) ≠ S(c)``); equivalently ``c`` is a prime implicant of the product function
-``AND_{j∈S(c)} F_j``, which is the prime of multi-output Quine-McCluskey. Any cover can be rewritten, cube by cube
-(``c`` feeding ``T`` ↦ a prime of ``AND_{j∈T} F_j`` containing it), into one made of such primes with no more
-product terms and no more literals, so the search may be restricted to them.
-
-Tags of all ``3**n`` cubes at once (ternary table)
-    An array of shape ``(3,)*n`` holds one ``uint64`` tag per cube; axis ``a`` is input ``n-1-a`` and digit 0/1/2
-    means literal ``x'``/``x``/absent. Points (digits 0/1) get the bitmask of outputs whose ``F_j`` holds them;
-    then for each axis in turn ``T[..2..] = T[..0..] & T[..1..]``. After axis ``a`` every entry whose digits beyond
-    ``a`` are 0/1 is exact, so after the last axis all are: ``n`` vectorized passes over ``3**n`` words
-    (0.5 M words at n = 12). The same pass with ``|`` over the ON sets gives, per cube, the outputs whose ON set it
-    meets; a prime is kept only if it meets the ON set of an output in its tag (its *useful outputs*).
+Primes come from :mod:`plaforge.minimize.primes` (generated from cubes; any number of outputs).
 
 Covering problem
 ----------------
@@ -28,20 +12,28 @@ implied by it and dropped; found as the AND of the target bitsets of the smaller
 dominance (a prime whose targets are a subset of another prime's targets, with no fewer literals, is dropped; found
 as the AND of the prime bitsets of its targets). Both directions are Python-int bitsets.
 
-Cost: ``O(n 3**n)`` for the tags, ``O(sum of prime sizes)`` for the matrix.
+Phase choice (*guards*)
+    For the double-phase function (output ``j`` and its complement ``m + j``, see :mod:`plaforge.minimize.exact`)
+    every element carries a *guard*: the output it belongs to, needed only when that output's phase is chosen.
+    Elements merge only with equal guards; a target is essential only without a guard, and target dominance drops
+    ``t2`` for ``t1`` only when ``t1`` has no guard or the same one. Prime dominance is unaffected.
+
+Cost: ``O(primes x ON points)`` per output for the matrix (vectorized), estimated and budgeted first.
 """
 
 from __future__ import annotations
 
 import heapq
 import time
-from collections.abc import Callable, Iterator, Sequence
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
 
 import numpy as np
 
-from ..core.errors import SizeLimit
+from ..core.cube import Cube, complement
+from ..core.errors import LimitReached
 from ..core.table import FunctionSets
+from .primes import Budget, Primes, multi_output_primes
 
 __all__ = [
     "CoverProblem",
@@ -49,80 +41,13 @@ __all__ = [
     "bits_of",
     "build_problem",
     "greedy_cover",
+    "incompatible_points_bound",
     "independent_targets_bound",
-    "multi_output_primes",
+    "on_points",
+    "phase_lower_bound",
     "quick_lower_bound",
     "reduce_problem",
-    "ternary_tags",
 ]
-
-
-# -- ternary table and primes --------------------------------------------------------------------------------------
-def _axis(n: int, a: int, v: int) -> tuple[slice | int, ...]:
-    idx: list[slice | int] = [slice(None)] * n
-    idx[a] = v
-    return tuple(idx)
-
-
-def ternary_tags(point_tags: np.ndarray, n: int, op: Callable[[np.ndarray, np.ndarray], np.ndarray]) -> np.ndarray:
-    """Extend per-point masks to all ``3**n`` cubes with ``op`` (``&``: contained in; ``|``: meets).
-
-    ``point_tags[p]`` is the mask of point ``p`` (bit ``i`` of ``p`` is input ``i``). Returns shape ``(3,)*n``;
-    axis ``a`` is input ``n-1-a``, digit 2 means the input is absent from the cube.
-    """
-    t = np.zeros((3,) * n, dtype=np.uint64)
-    t[(slice(0, 2),) * n] = point_tags.reshape((2,) * n)
-    for a in range(n):
-        t[_axis(n, a, 2)] = op(t[_axis(n, a, 0)], t[_axis(n, a, 1)])
-    return t
-
-
-@dataclass(frozen=True)
-class Primes:
-    """Multi-output primes: parallel arrays of ``care``, ``value`` masks and ``useful`` outputs.
-
-    ``cube_tags`` is the ternary table they were found in: the tag of every one of the ``3**n`` cubes (see
-    :func:`ternary_tags`).
-    """
-
-    care: np.ndarray
-    value: np.ndarray
-    useful: np.ndarray
-    cube_tags: np.ndarray
-
-    def __len__(self) -> int:
-        return int(self.care.size)
-
-
-def multi_output_primes(on: Sequence[np.ndarray], dc: Sequence[np.ndarray], n: int) -> Primes:
-    """All useful multi-output primes of the function with point sets ``on[j]``, ``dc[j]`` (boolean arrays)."""
-    m = len(on)
-    if m > 64:
-        raise SizeLimit(f"the exact path handles at most 64 outputs at once, not {m}; use --cost per-output")
-    size = 1 << n
-    f_tags = np.zeros(size, dtype=np.uint64)
-    on_tags = np.zeros(size, dtype=np.uint64)
-    for j in range(m):
-        bit = np.uint64(1 << j)
-        f_tags[on[j] | dc[j]] |= bit
-        on_tags[on[j]] |= bit
-    t = ternary_tags(f_tags, n, np.bitwise_and)
-    u = ternary_tags(on_tags, n, np.bitwise_or)
-    useful = t & u
-    keep = useful != 0
-    for a in range(n):
-        mid = t[_axis(n, a, 2)]
-        for v in (0, 1):
-            sl = _axis(n, a, v)
-            keep[sl] &= t[sl] != mid
-    coords = np.nonzero(keep)
-    care = np.zeros(coords[0].size if n else int(keep.sum()), dtype=np.int64)
-    value = np.zeros_like(care)
-    for a, digits in enumerate(coords):
-        bit = np.int64(1 << (n - 1 - a))
-        care |= np.where(digits != 2, bit, np.int64(0))
-        value |= np.where(digits == 1, bit, np.int64(0))
-    return Primes(care, value, useful[keep], t)
 
 
 # -- covering problem ----------------------------------------------------------------------------------------------
@@ -147,8 +72,9 @@ class CoverProblem:
     """Targets (merged elements) and primes as bitsets of each other, plus what the reductions decided.
 
     ``covered_by[t]``: bitset of the primes covering target ``t``; ``covers[p]``: bitset of the targets prime ``p``
-    covers; ``open_targets`` / ``open_primes``: bitsets of what is still open; ``chosen``: essential primes already
-    in the cover; ``elements[p]``: per useful output ``j`` of prime ``p``, the element ids (``(point, j)`` pairs) it
+    covers; ``guards[t]``: the output target ``t`` belongs to when it is needed only in that output's phase, else
+    -1; ``open_targets`` / ``open_primes``: bitsets of what is still open; ``chosen``: essential primes already in
+    the cover; ``elements[p]``: per useful output ``j`` of prime ``p``, the element ids (``(point, j)`` pairs) it
     covers.
     """
 
@@ -158,82 +84,96 @@ class CoverProblem:
     covers: list[int]
     literals: list[int]
     elements: list[list[tuple[int, np.ndarray]]]
+    guards: list[int]
     open_targets: int
     open_primes: int
     chosen: list[int]
 
+    def useful(self, p: int) -> int:
+        """Outputs prime ``p`` covers some element of (bit ``j``: output ``j``)."""
+        return sum(1 << j for j, _ in self.elements[p])
 
-def build_problem(primes: Primes, on: Sequence[np.ndarray], n: int) -> CoverProblem:
-    """Covering matrix over ``(ON point, output)`` elements, elements covered by the same primes merged."""
-    size = 1 << n
-    m = len(on)
-    eid = []
-    base = 0
-    for j in range(m):
-        ids = np.full(size, -1, dtype=np.int64)
-        where = np.flatnonzero(on[j])
-        ids[where] = np.arange(base, base + where.size)
-        base += where.size
-        eid.append(ids)
-    n_el = base
-    full = size - 1
-    offsets: dict[int, np.ndarray] = {}
-    elements: list[list[tuple[int, np.ndarray]]] = []
-    pr_parts: list[np.ndarray] = []
+    def needed(self, outputs: int) -> int:
+        """Bitset of the open targets needed when the guarded outputs in ``outputs`` are the chosen phases."""
+        return sum(1 << t for t in bits_of(self.open_targets) if self.guards[t] < 0 or outputs >> self.guards[t] & 1)
+
+
+def on_points(cubes: Sequence[Cube], n: int) -> np.ndarray:
+    """Sorted distinct points of ``cubes`` (``int64``)."""
+    parts = []
+    for c in cubes:
+        offs = np.zeros(1, dtype=np.int64)
+        for b in bits_of(((1 << n) - 1) & ~c.care):
+            offs = np.concatenate([offs, offs + (1 << b)])
+        parts.append(c.value + offs)
+    return np.unique(np.concatenate(parts)) if parts else np.zeros(0, dtype=np.int64)
+
+
+def build_problem(primes: Primes, on: Sequence[Sequence[Cube]], n: int, budget: Budget,
+                  guarded: bool = False) -> CoverProblem:
+    """Covering matrix over ``(ON point, output)`` elements, elements covered by the same primes merged.
+
+    With ``guarded`` every element's guard is its output (see the module docs); otherwise there are no guards.
+    """
+    points = sum(sum(2.0 ** (n - c.literals) for c in cubes) for cubes in on)
+    budget.size(points * 24, f"for {points:,.0f} (ON point, output) elements")
+    pts = [on_points(cubes, n) for cubes in on]
+    work = sum(float(np.count_nonzero(primes.has(j))) * pts[j].size for j in range(len(on)))
+    budget.size(work / 4, f"to relate {len(primes):,} primes to {points:,.0f} elements")
     el_parts: list[np.ndarray] = []
-    for i in range(len(primes)):
-        free = full & ~int(primes.care[i])
-        offs = offsets.get(free)
-        if offs is None:
-            offs = np.zeros(1, dtype=np.int64)
-            for b in bits_of(free):
-                offs = np.concatenate([offs, offs + (1 << b)])
-            offsets[free] = offs
-        pts = int(primes.value[i]) + offs
-        mine = []
-        for j in bits_of(int(primes.useful[i])):
-            ids = eid[j][pts]
-            ids = ids[ids >= 0]
-            mine.append((j, ids))
-            el_parts.append(ids)
-            pr_parts.append(np.full(ids.size, i, dtype=np.int64))
-        elements.append(mine)
+    pr_parts: list[np.ndarray] = []
+    per_prime: list[list[tuple[int, np.ndarray]]] = [[] for _ in range(len(primes))]
+    base = 0
+    guard_of = np.zeros(0, dtype=np.int64)
+    for j, pj in enumerate(pts):
+        idx = np.flatnonzero(primes.has(j))
+        if pj.size and idx.size:
+            step = max(1, (1 << 22) // pj.size)
+            for s in range(0, idx.size, step):
+                budget.time("building the covering problem")
+                sel = idx[s:s + step]
+                inside = (pj[None, :] & primes.care[sel, None]) == primes.value[sel, None]
+                rows, cols = np.nonzero(inside)
+                ids = base + cols
+                el_parts.append(ids)
+                pr_parts.append(sel[rows])
+                cuts = np.flatnonzero(np.diff(rows)) + 1
+                for grp_r, grp_i in zip(np.split(rows, cuts), np.split(ids, cuts)):
+                    if grp_r.size:
+                        per_prime[int(sel[grp_r[0]])].append((j, grp_i))
+        guard_of = np.concatenate([guard_of, np.full(pj.size, j if guarded else -1, dtype=np.int64)])
+        base += pj.size
+    n_el = base
     all_el = np.concatenate(el_parts) if el_parts else np.zeros(0, dtype=np.int64)
     all_pr = np.concatenate(pr_parts) if pr_parts else np.zeros(0, dtype=np.int64)
     order = np.lexsort((all_pr, all_el))
     all_el, all_pr = all_el[order], all_pr[order]
-    bounds = np.flatnonzero(np.diff(all_el)) + 1
-    per_element = np.split(all_pr, bounds) if all_el.size else []
+    cuts = np.flatnonzero(np.diff(all_el)) + 1
     n_pr = len(primes)
-    target_of: dict[bytes, int] = {}
-    covered_by: list[int] = []
+    target_of: dict[tuple[int, bytes], int] = {}
     target_primes: list[np.ndarray] = []
-    for g in per_element:
-        key = g.tobytes()
+    guards: list[int] = []
+    for g, e in zip(np.split(all_pr, cuts), np.split(all_el, cuts)) if all_el.size else ():
+        key = (int(guard_of[e[0]]), g.tobytes())
         if key not in target_of:
-            target_of[key] = len(covered_by)
-            covered_by.append(_to_bitset(g, n_pr))
+            target_of[key] = len(target_primes)
             target_primes.append(g)
-    # per prime: the transpose
+            guards.append(key[0])
+    budget.size(2.0 * len(target_primes) * n_pr / 8, f"for a {len(target_primes):,} x {n_pr:,} covering matrix")
+    covered_by = [_to_bitset(g, n_pr) for g in target_primes]
+    covers = [0] * n_pr
     if target_primes:
         t_idx = np.concatenate([np.full(g.size, t, dtype=np.int64) for t, g in enumerate(target_primes)])
         p_idx = np.concatenate(target_primes)
         order = np.lexsort((t_idx, p_idx))
         t_idx, p_idx = t_idx[order], p_idx[order]
-    else:
-        t_idx = p_idx = np.zeros(0, dtype=np.int64)
-    covers = [0] * n_pr
-    if p_idx.size:
         cuts = np.flatnonzero(np.diff(p_idx)) + 1
         for grp_p, grp_t in zip(np.split(p_idx, cuts), np.split(t_idx, cuts)):
-            covers[int(grp_p[0])] = _to_bitset(grp_t, len(covered_by))
+            covers[int(grp_p[0])] = _to_bitset(grp_t, len(target_primes))
     literals = [int(c).bit_count() for c in primes.care.tolist()]
-    open_primes = 0
-    for p in range(n_pr):
-        if covers[p]:
-            open_primes |= 1 << p
-    return CoverProblem(primes, n_el, covered_by, covers, literals, elements, (1 << len(covered_by)) - 1,
-                        open_primes, [])
+    open_primes = sum(1 << p for p in range(n_pr) if covers[p])
+    return CoverProblem(primes, n_el, covered_by, covers, literals, per_prime, guards,
+                        (1 << len(target_primes)) - 1, open_primes, [])
 
 
 def _drop_prime(pb: CoverProblem, p: int) -> None:
@@ -260,7 +200,7 @@ def reduce_problem(pb: CoverProblem, deadline: float) -> None:
             if not pb.open_targets >> t & 1:
                 continue
             ps = pb.covered_by[t]
-            if ps and ps & (ps - 1) == 0:
+            if pb.guards[t] < 0 and ps and ps & (ps - 1) == 0:
                 p = ps.bit_length() - 1
                 pb.chosen.append(p)
                 for t2 in list(bits_of(pb.covers[p] & pb.open_targets)):
@@ -279,8 +219,9 @@ def reduce_problem(pb: CoverProblem, deadline: float) -> None:
                     break
             sup &= ~(1 << t)
             for t2 in list(bits_of(sup)):
-                _drop_target(pb, t2)
-                changed = True
+                if pb.guards[t] < 0 or pb.guards[t2] == pb.guards[t]:
+                    _drop_target(pb, t2)
+                    changed = True
         if time.monotonic() >= deadline:
             break
         # prime dominance: drop primes whose targets another prime covers at no more literals
@@ -307,24 +248,26 @@ def reduce_problem(pb: CoverProblem, deadline: float) -> None:
 
 
 def independent_targets_bound(pb: CoverProblem) -> int:
-    """Size of a greedy set of open targets pairwise sharing no prime: a lower bound on primes still needed."""
+    """Size of a greedy set of open unguarded targets pairwise sharing no prime: a lower bound on primes still
+    needed."""
     blocked = 0
     count = 0
-    for t in sorted(bits_of(pb.open_targets), key=lambda t: (pb.covered_by[t].bit_count(), t)):
+    for t in sorted((t for t in bits_of(pb.open_targets) if pb.guards[t] < 0), key=lambda t: (pb.covered_by[t].bit_count(), t)):
         if not pb.covered_by[t] & blocked:
             blocked |= pb.covered_by[t]
             count += 1
     return count
 
 
-def greedy_cover(pb: CoverProblem, start: Sequence[int] = ()) -> list[int]:
-    """Classical greedy set cover of the open targets (most new targets per prime, fewer literals on ties).
+def greedy_cover(pb: CoverProblem, start: Sequence[int] = (), outputs: int = -1) -> list[int]:
+    """Classical greedy set cover of the open targets needed for the phases ``outputs`` (see
+    :meth:`CoverProblem.needed`; all when -1), most new targets per prime, fewer literals on ties.
 
     ``start`` primes are taken first (e.g. the heuristic's cover mapped onto primes); greedy completes them. Gains
     only shrink as targets get covered, so a heap with lazy re-evaluation finds each best prime without rescanning
     all.
     """
-    left = pb.open_targets
+    left = pb.needed(outputs)
     picked: list[int] = list(start)
     for p in picked:
         left &= ~pb.covers[p]
@@ -343,22 +286,73 @@ def greedy_cover(pb: CoverProblem, start: Sequence[int] = ()) -> list[int]:
     return picked
 
 
-def quick_lower_bound(fs: FunctionSets, per_output: bool) -> int:
+def incompatible_points_bound(on: Sequence[Cube], f: Sequence[Cube], n: int, deadline: float) -> int:
+    """Size of a greedy set of ON points of one output no two of which one implicant can hold: a lower bound on
+    the product terms feeding that output.
+
+    Two ON points share an implicant only when their supercube stays inside ``F = ON ∪ DC`` (``f``); the OFF set is
+    the complement of ``f``. Candidates are two opposite corners of every ON cube; the search stops at
+    ``deadline`` with what it has (still a bound). 0 when ON is empty.
+    """
+    if not on:
+        return 0
+    full = (1 << n) - 1
+    off = complement(list(f))
+    oc = np.fromiter((c.care for c in off), dtype=np.int64, count=len(off))
+    ov = np.fromiter((c.value for c in off), dtype=np.int64, count=len(off))
+    reps = sorted({c.value for c in on} | {c.value | (full & ~c.care) for c in on})
+    kept: list[int] = []
+    for p in reps:
+        if time.monotonic() > deadline:
+            break
+        if kept:
+            q = np.array(kept, dtype=np.int64)
+            scare = ~(q ^ p) & full
+            sval = scare & p
+            meets = (((sval[:, None] ^ ov[None, :]) & scare[:, None] & oc[None, :]) == 0).any(axis=1)
+            if not meets.all():
+                continue
+        kept.append(p)
+    return len(kept)
+
+
+def quick_lower_bound(fs: FunctionSets, per_output: bool, seconds: float = 1.0) -> int:
     """A lower bound on rows (or, per output, on summed terms) of any cover of ``fs``, without solving.
 
-    Essential primes found by the reductions (at most a second of them), plus the independent-target bound of what
-    is left: targets no two of which share a prime each need a prime of their own, and a minimum cover can always be
-    made of primes. Cost: the prime generation, matrix and reductions of the exact path, no solver.
+    Per output, :func:`incompatible_points_bound`; for rows their maximum (every output needs that many rows of its
+    own), for the per-output cost their sum. Where the primes fit a small budget (``seconds``, 256 MB, 20 000
+    primes) also the exact path's bound without its solver: essential primes after the reductions plus targets no two
+    of which share a prime (a minimum cover can always be made of primes). Any width; 0 only when no output has an
+    ON point.
     """
-    on, dc = fs.point_arrays()
+    deadline = time.monotonic() + seconds
+    alone = [incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, deadline) for j in range(fs.m)]
+    bound = sum(alone) if per_output else max(alone, default=0)
     groups = [[j] for j in range(fs.m)] if per_output else [list(range(fs.m))]
     total = 0
-    for group in groups:
-        sub_on = [on[j] for j in group]
-        if not any(a.any() for a in sub_on):
-            continue
-        pb = build_problem(multi_output_primes(sub_on, [dc[j] for j in group], fs.n), sub_on, fs.n)
-        before = independent_targets_bound(pb)
-        reduce_problem(pb, time.monotonic() + 1.0)
-        total += max(before, len(pb.chosen) + independent_targets_bound(pb))
-    return total
+    try:
+        for group in groups:
+            sub_on = [fs.on[j] for j in group]
+            if not any(sub_on):
+                continue
+            budget = Budget(deadline, 256 << 20)
+            primes = multi_output_primes([fs.on[j] + fs.dc[j] for j in group], sub_on, fs.n, budget, 20_000)
+            pb = build_problem(primes, sub_on, fs.n, budget)
+            before = independent_targets_bound(pb)
+            reduce_problem(pb, deadline)
+            total += max(before, len(pb.chosen) + independent_targets_bound(pb))
+    except LimitReached:
+        return bound
+    return max(bound, total)
+
+
+def phase_lower_bound(true_sets: FunctionSets, comp_sets: FunctionSets, per_output: bool,
+                      seconds: float = 1.0) -> int:
+    """A lower bound valid for every output phase assignment: per output the smaller
+    :func:`incompatible_points_bound` of its two phases; their maximum for rows, their sum per output."""
+    deadline = time.monotonic() + seconds
+    each = [
+        min(incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, deadline) for fs in (true_sets, comp_sets))
+        for j in range(true_sets.m)
+    ]
+    return sum(each) if per_output else max(each, default=0)

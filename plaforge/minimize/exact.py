@@ -1,7 +1,10 @@
-"""Exact two-level minimization: multi-output primes, a reduced covering problem, CP-SAT.
+"""Exact two-level minimization: multi-output primes, a reduced covering problem, CP-SAT; optionally over all
+output phase assignments at once.
 
-The primes and the covering problem (targets, reductions, greedy cover, independent-target bound) are built by
-:mod:`plaforge.minimize.covering`; this module solves the reduced problem and turns the answer into a cover.
+The primes come from :mod:`plaforge.minimize.primes` (generated from cubes: the work follows the function, not
+``3**n``, and any number of outputs fits); the covering problem (targets, reductions, greedy cover,
+independent-target bound) from :mod:`plaforge.minimize.covering`; this module solves it and turns the answer into a
+cover.
 
 Solver
 ------
@@ -15,7 +18,21 @@ above. The heuristic's cover comes from a function the caller passes in (:func:`
 reported lower bound on rows is ``essentials + max(CP-SAT bound, independent-target bound)``, where the
 independent-target bound is the size of a set of targets no two of which share a prime (each needs its own prime).
 
-Cost: that of :mod:`plaforge.minimize.covering`, then the solver's time.
+All phase assignments at once (``phase``)
+-----------------------------------------
+For output ``j`` of a group of ``g`` outputs the problem holds two outputs: ``j`` (``f_j``: ON and DC of the Table)
+and ``g + j`` (``¬f_j``: the Table's OFF set as ON, the same DC). Primes are those of this double-phase function.
+A Boolean ``y_j`` (output ``j`` realized in complement) guards the targets: a target of output ``j`` must be covered
+unless ``y_j``, one of output ``g + j`` unless ``¬y_j``; the objective counts every chosen prime once whichever
+outputs it feeds. The optimum of this one model is the minimum over all ``2**g`` assignments, and its CP-SAT bound
+is a bound over all of them. An output constant in one phase costs nothing there (its complement has no ON point).
+
+Limits
+------
+Everything runs against one deadline (the whole call's ``--time-limit``) and one memory budget (``--memory-limit``):
+prime generation and the matrix check the deadline as they go and estimate memory before allocating
+(:class:`~plaforge.core.errors.SizeLimit` with the figure). Past the deadline the best cover so far (the seed's) is
+returned with ``optimal`` false; with no cover at all the call raises :class:`~plaforge.core.errors.TimeLimit`.
 """
 
 from __future__ import annotations
@@ -28,61 +45,53 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from ..core.cube import Cover, Cube
-from ..core.errors import InternalError, LimitReached, SizeLimit
+from ..core.errors import InternalError, LimitReached, TimeLimit
 from ..core.table import FunctionSets, Table
 from .covering import (
     CoverProblem,
-    Primes,
     bits_of,
     build_problem,
     greedy_cover,
     independent_targets_bound,
-    multi_output_primes,
     reduce_problem,
 )
 from .options import MinimizeOptions
+from .primes import Budget, Primes, multi_output_primes, popcount
 from .progress import Progress
-from .result import checked_cover
+from .result import checked_cover, term_count
 
 __all__ = ["ExactResult", "SeedCover", "minimize_exact", "solve_exact"]
 
 #: How the exact path obtains the heuristic cover that seeds it: ``seed(sets, options)`` gives the cubes.
 SeedCover = Callable[[FunctionSets, MinimizeOptions], Sequence[Cube]]
 
+#: Bytes of memory budget per candidate prime (its bitsets, element lists and solver variable).
+_BYTES_PER_PRIME = 8192
+
 
 # -- mapping heuristic cubes to primes -----------------------------------------------------------------------------
-def _ternary_index(care: int, value: int, n: int) -> tuple[int, ...]:
-    return tuple((1 if value >> i & 1 else 0) if care >> i & 1 else 2 for i in range(n - 1, -1, -1))
-
-
-def _map_to_primes(cubes: Sequence[Cube], primes: Primes, n: int) -> list[int]:
-    """Expand each cube to a prime keeping its outputs in the tag; indices into ``primes`` where found."""
-    tags = primes.cube_tags
-    index = {(int(c), int(v)): i for i, (c, v) in enumerate(zip(primes.care.tolist(), primes.value.tolist()))}
+def _map_to_primes(cubes: Sequence[Cube], primes: Primes) -> list[int]:
+    """For each cube, the prime with fewest literals containing it whose tag holds the cube's outputs."""
+    lits = popcount(primes.care)
     out = []
     for cube in cubes:
-        care, value = cube.care, cube.value
-        need = np.uint64(cube.outputs)
-        if tags[_ternary_index(care, value, n)] & need != need:
-            continue
-        for i in range(n):
-            bit = 1 << i
-            if care & bit:
-                c2, v2 = care & ~bit, value & ~bit
-                if tags[_ternary_index(c2, v2, n)] & need == need:
-                    care, value = c2, v2
-        i = index.get((care, value))
-        if i is not None:
-            out.append(i)
+        inside = ((primes.care & ~np.int64(cube.care)) == 0) & ((np.int64(cube.value) & primes.care) == primes.value)
+        for j in bits_of(cube.outputs):
+            inside &= primes.has(j)
+        idx = np.flatnonzero(inside)
+        if idx.size:
+            out.append(int(idx[np.argmin(lits[idx])]))
     return out
 
 
 # -- solving -------------------------------------------------------------------------------------------------------
 @dataclass(frozen=True)
 class ExactResult:
-    """Chosen prime indices, with whether rows (and literals) were proven minimum and the row lower bound."""
+    """Chosen prime indices and the outputs they realize (the chosen phases; -1: all), with whether rows (and
+    literals) were proven minimum and the row lower bound."""
 
     chosen: tuple[int, ...]
+    outputs: int
     optimal: bool
     literals_optimal: bool
     lower_bound: int
@@ -90,18 +99,25 @@ class ExactResult:
 
 
 def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[int], deadline: float,
-            progress: Progress | _Offset, row_count: int | None) -> tuple[list[int] | None, bool, float]:
+            progress: Progress | _Offset, row_count: int | None,
+            phases: int) -> tuple[list[int] | None, int, bool, float]:
     """One CP-SAT solve: minimum primes (``row_count`` None) or minimum literals at ``row_count`` primes.
 
     ``primes`` and ``targets`` are the open ones; ``hint`` is a known cover, and the model asks for one no worse.
-    Returns (chosen primes or None, proven, bound).
+    ``phases`` outputs have a phase variable (guards ``j`` and ``phases + j``). Returns (chosen primes or None,
+    outputs realized, proven, bound).
     """
     from ortools.sat.python import cp_model
 
     model = cp_model.CpModel()
     x = {p: model.NewBoolVar(f"p{p}") for p in primes}
+    y = [model.NewBoolVar(f"y{j}") for j in range(phases)]
     for t in targets:
-        model.AddBoolOr([x[p] for p in bits_of(pb.covered_by[t])])
+        lits = [x[p] for p in bits_of(pb.covered_by[t])]
+        g = pb.guards[t]
+        if g >= 0:
+            lits.append(y[g] if g < phases else y[g - phases].Not())
+        model.AddBoolOr(lits)
     # The known cover enters as an upper bound, not as a solution hint: on these set-cover models a hint steered
     # the search into long detours (the 9-input symmetric function took 10 s with it, 4 s with the bound).
     if row_count is None:
@@ -109,9 +125,9 @@ def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[i
         model.Minimize(sum(x.values()))
     else:
         model.Add(sum(x.values()) == row_count)
-        lits = sum(pb.literals[p] * x[p] for p in primes)
-        model.Add(lits <= sum(pb.literals[p] for p in hint))
-        model.Minimize(lits)
+        lits_sum = sum(pb.literals[p] * x[p] for p in primes)
+        model.Add(lits_sum <= sum(pb.literals[p] for p in hint))
+        model.Minimize(lits_sum)
     solver = cp_model.CpSolver()
     # Two workers, one per core: an LP-based search (its bound proves set-cover minima quickly) and a core-based
     # one (MaxSAT-style unsatisfiable cores raise the bound); interleaved deterministically, so the same input gives
@@ -131,24 +147,37 @@ def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[i
     status = solver.Solve(model, _Seen())
     if status in (cp_model.OPTIMAL, cp_model.FEASIBLE):
         picked = [p for p in primes if solver.BooleanValue(x[p])]
-        return picked, status == cp_model.OPTIMAL, solver.BestObjectiveBound()
+        inv = sum(1 << j for j in range(phases) if solver.BooleanValue(y[j]))
+        return picked, _selected(phases, inv), status == cp_model.OPTIMAL, solver.BestObjectiveBound()
     if status == cp_model.INFEASIBLE:
-        return None, False, float("inf")
-    return None, False, solver.BestObjectiveBound()
+        return None, -1, False, float("inf")
+    return None, -1, False, solver.BestObjectiveBound()
 
 
-def solve_exact(on: Sequence[np.ndarray], dc: Sequence[np.ndarray], n: int, heuristic: Sequence[Cube],
-                deadline: float, progress: Progress) -> tuple[CoverProblem, ExactResult]:
-    """Minimum cover of the function with point sets ``on``/``dc``; see the module docs for the method."""
+def _selected(phases: int, inv: int) -> int:
+    """Outputs of a double-phase problem realized under assignment ``inv`` (-1: all, when there is no phase)."""
+    if not phases:
+        return -1
+    return sum(1 << (phases + j if inv >> j & 1 else j) for j in range(phases))
+
+
+def solve_exact(f: Sequence[Sequence[Cube]], on: Sequence[Sequence[Cube]], n: int, heuristic: Sequence[Cube],
+                heuristic_outputs: int, phases: int, budget: Budget, max_primes: int,
+                progress: Progress) -> tuple[CoverProblem, ExactResult]:
+    """Minimum cover of the function with ``F_j`` covered by ``f[j]`` and ON sets ``on[j]``; see the module docs.
+
+    ``phases``: 0, or the group size ``g`` of a double-phase problem (outputs ``j`` and ``g + j``); the heuristic's
+    cubes realize ``heuristic_outputs`` (:func:`_selected` of its assignment).
+    """
     progress.stage("generating multi-output primes")
-    primes = multi_output_primes(on, dc, n)
+    primes = multi_output_primes(f, on, n, budget, max_primes)
     progress.update(primes=len(primes))
     progress.stage("building the covering problem")
-    pb = build_problem(primes, on, n)
+    pb = build_problem(primes, on, n, budget, guarded=phases > 0)
     n_targets0, n_primes0 = pb.open_targets.bit_count(), pb.open_primes.bit_count()
     progress.update(elements=pb.n_elements, targets=n_targets0)
     progress.stage("reducing (essentials, dominance)")
-    reduce_problem(pb, deadline)
+    reduce_problem(pb, budget.deadline)
     targets = list(bits_of(pb.open_targets))
     open_primes = list(bits_of(pb.open_primes))
     ess = len(pb.chosen)
@@ -158,20 +187,22 @@ def solve_exact(on: Sequence[np.ndarray], dc: Sequence[np.ndarray], n: int, heur
         ("essential", ess), ("targets_reduced", len(targets)), ("primes_reduced", len(open_primes)),
     ]
     if not targets:
-        return pb, ExactResult(tuple(pb.chosen), True, True, ess, tuple(stats))
+        return pb, ExactResult(tuple(pb.chosen), _selected(phases, 0), True, True, ess, tuple(stats))
     indep = independent_targets_bound(pb)
-    greedy = greedy_cover(pb)
-    mapped = [p for p in dict.fromkeys(_map_to_primes(heuristic, primes, n)) if pb.open_primes >> p & 1]
-    completed = greedy_cover(pb, mapped)
+    greedy = greedy_cover(pb, (), heuristic_outputs)
+    mapped = [p for p in dict.fromkeys(_map_to_primes(heuristic, primes)) if pb.open_primes >> p & 1]
+    completed = greedy_cover(pb, mapped, heuristic_outputs)
     hint = completed if len(completed) < len(greedy) else greedy
+    outputs = heuristic_outputs
     progress.update(**{"best rows": ess + len(hint), "rows bound": ess + indep})
-    if time.monotonic() < deadline:
+    picked: list[int] | None = None
+    proven, bound = False, 0.0
+    if time.monotonic() < budget.deadline:
         progress.stage("solving minimum cover (CP-SAT)")
-        picked, proven, bound = _cp_sat(pb, open_primes, targets, set(hint), deadline, _Offset(progress, ess), None)
-    else:
-        picked, proven, bound = None, False, 0.0
+        picked, outputs, proven, bound = _cp_sat(pb, open_primes, targets, set(hint), budget.deadline,
+                                                 _Offset(progress, ess), None, phases)
     if picked is None or len(picked) > len(hint):
-        picked, proven = list(hint), False
+        picked, outputs, proven = list(hint), heuristic_outputs, False
     lb = ess + max(indep, math.ceil(bound - 1e-6) if math.isfinite(bound) else 0)
     if proven:
         lb = ess + len(picked)
@@ -180,15 +211,14 @@ def solve_exact(on: Sequence[np.ndarray], dc: Sequence[np.ndarray], n: int, heur
     # already meets that bound (e.g. all primes equally wide) there is nothing for stage 2 to find.
     floor = sum(sorted(pb.literals[p] for p in open_primes)[: len(picked)])
     lit_opt = sum(pb.literals[p] for p in picked) == floor
-    if not lit_opt and time.monotonic() < deadline - 0.2:
+    if not lit_opt and time.monotonic() < budget.deadline - 0.2:
         progress.stage("minimizing literals at that row count (CP-SAT)")
-        picked2, lit_opt, _ = _cp_sat(pb, open_primes, targets, set(picked), deadline, progress, len(picked))
-        if picked2 is not None:
-            lits = sum(pb.literals[p] for p in picked)
-            if sum(pb.literals[p] for p in picked2) <= lits:
-                picked = picked2
+        picked2, outputs2, lit_opt, _ = _cp_sat(pb, open_primes, targets, set(picked), budget.deadline, progress,
+                                                len(picked), phases)
+        if picked2 is not None and sum(pb.literals[p] for p in picked2) <= sum(pb.literals[p] for p in picked):
+            picked, outputs = picked2, outputs2
     stats.append(("independent_bound", ess + indep))
-    return pb, ExactResult(tuple(pb.chosen) + tuple(picked), proven, proven and lit_opt, lb, tuple(stats))
+    return pb, ExactResult(tuple(pb.chosen) + tuple(picked), outputs, proven, proven and lit_opt, lb, tuple(stats))
 
 
 class _Offset:
@@ -204,23 +234,57 @@ class _Offset:
         self.inner.stage(text)
 
 
-def _irredundant(pb: CoverProblem, chosen: Sequence[int]) -> list[Cube]:
-    """Cubes of the chosen primes, each feeding only outputs where it is not redundant."""
+def _irredundant(pb: CoverProblem, chosen: Sequence[int], outputs: int) -> list[Cube]:
+    """Cubes of the chosen primes feeding only the realized ``outputs``, each only where it is not redundant."""
     count = np.zeros(pb.n_elements, dtype=np.int64)
+    mine = {p: [(j, ids) for j, ids in pb.elements[p] if outputs >> j & 1] for p in chosen}
     for p in chosen:
-        for _, ids in pb.elements[p]:
+        for _, ids in mine[p]:
             np.add.at(count, ids, 1)
-    outputs = {p: int(pb.primes.useful[p]) for p in chosen}
+    feeds = {p: sum(1 << j for j, _ in mine[p]) for p in chosen}
     for p in sorted(chosen, key=lambda p: (-pb.literals[p], p)):
-        for j, ids in pb.elements[p]:
+        for j, ids in mine[p]:
             if ids.size == 0 or (count[ids] >= 2).all():
-                outputs[p] &= ~(1 << j)
+                feeds[p] &= ~(1 << j)
                 np.add.at(count, ids, -1)
-    return [Cube(int(pb.primes.care[p]), int(pb.primes.value[p]), outputs[p]) for p in chosen if outputs[p]]
+    return [Cube(int(pb.primes.care[p]), int(pb.primes.value[p]), feeds[p]) for p in chosen if feeds[p]]
 
 
 # -- the public entry ----------------------------------------------------------------------------------------------
-def minimize_exact(table: Table, options: MinimizeOptions, inverted: int, seed: SeedCover) -> Cover:
+@dataclass
+class _Group:
+    """One covering problem: table outputs ``outputs``; with ``phase`` the double-phase function of them."""
+
+    outputs: list[int]
+    phase: bool
+
+    def to_problem(self, cube: Cube, inverted: int) -> Cube:
+        """A cube of the table realizing outputs under ``inverted``, as a cube of this problem (or outputs 0)."""
+        g = len(self.outputs)
+        out = 0
+        for k, j in enumerate(self.outputs):
+            if cube.outputs >> j & 1:
+                out |= 1 << (g + k if self.phase and inverted >> j & 1 else k)
+        return Cube(cube.care, cube.value, out)
+
+    def to_table(self, cube: Cube) -> Cube:
+        g = len(self.outputs)
+        return Cube(cube.care, cube.value, sum(1 << self.outputs[k % g] for k in bits_of(cube.outputs)))
+
+    def inverted(self, realized: int) -> int:
+        """Table outputs realized in complement, from the problem outputs realized."""
+        g = len(self.outputs)
+        if not self.phase:
+            return 0
+        return sum(1 << j for k, j in enumerate(self.outputs) if realized >> (g + k) & 1)
+
+    def selected(self, inverted: int) -> int:
+        return _selected(len(self.outputs) if self.phase else 0,
+                         sum(1 << k for k, j in enumerate(self.outputs) if inverted >> j & 1))
+
+
+def minimize_exact(table: Table, options: MinimizeOptions, inverted: int, seed: SeedCover,
+                   deadline: float) -> Cover:
     """Proven-minimum cover of ``table`` (rows, then literals) under ``options.cost``; verified.
 
     Parameters
@@ -228,65 +292,70 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int, seed: 
     table : Table
         The function.
     options : MinimizeOptions
-        Cost model, time limit, exact-path width limit, progress display.
+        Cost model, phase (minimum over all assignments), memory limit, progress display.
     inverted : int
-        Outputs realized in complement (bit ``j``: output ``j``).
+        With ``options.phase``: the assignment the seed realizes (a good start, not a constraint); otherwise the
+        outputs realized in complement (bit ``j``: output ``j``).
     seed : SeedCover
-        Gives the heuristic cover that seeds the solver (and is the fallback); it gets a third of the time limit,
-        and when it fails the solver starts from its greedy cover alone.
+        Gives the heuristic cover that seeds the solver (and is the fallback); it gets a third of the time left.
+    deadline : float
+        ``time.monotonic()`` by which the call returns (the whole call's time limit).
 
     Raises
     ------
+    plaforge.core.errors.TimeLimit
+        The deadline passed before any cover was found.
     plaforge.core.errors.SizeLimit
-        ``table`` has more than ``options.exact_limit`` inputs.
+        A step was estimated above ``options.memory_limit``.
     """
-    deadline = time.monotonic() + options.time_limit
     n, m = table.n_inputs, table.n_outputs
-    if n > options.exact_limit:
-        raise SizeLimit(
-            f"{table.source or 'table'}: the exact path enumerates 3^{n} cubes, above its limit of "
-            f"{options.exact_limit} inputs; use the heuristic (drop --exact)"
-        )
+    budget = Budget(deadline, options.memory_limit << 20)
+    max_primes = (options.memory_limit << 20) // _BYTES_PER_PRIME
     fs = table.cover_sets(inverted)
-    on, dc = fs.point_arrays()
     per_output = options.cost == "per-output"
+    left = max(0.05, deadline - time.monotonic())
     try:
-        heur: Sequence[Cube] | None = seed(fs, replace(options, time_limit=max(0.5, options.time_limit / 3)))
+        heur: Sequence[Cube] | None = seed(fs, replace(options, time_limit=max(0.05, left / 3)))
     except (InternalError, LimitReached):
         heur = None
+    sets = (table.cover_sets(0), table.cover_sets((1 << m) - 1)) if options.phase else (fs, fs)
+    cubes: list[Cube] = []
+    optimal = lits_optimal = True
+    bound = 0
+    final_inv = 0
+    stats: list[tuple[str, object]] = []
     with Progress(options.progress, f"exact minimization of {table.source or 'table'}") as progress:
-        groups = [[j] for j in range(m)] if per_output else [list(range(m))]
-        cubes: list[Cube] = []
-        optimal = lits_optimal = True
-        bound = 0
-        stats: list[tuple[str, object]] = []
-        for k, group in enumerate(groups):
-            left = len(groups) - k
-            sub_deadline = time.monotonic() + max(0.1, (deadline - time.monotonic()) / left)
-            sub_on = [on[j] for j in group]
-            sub_dc = [dc[j] for j in group]
-            mask = sum(1 << j for j in group)
-            sub_heur = [
-                Cube(c.care, c.value, _squeeze(c.outputs & mask, group)) for c in heur or () if c.outputs & mask
-            ]
+        groups = [_Group([j], options.phase) for j in range(m)] if per_output else [_Group(list(range(m)),
+                                                                                            options.phase)]
+        for k, grp in enumerate(groups):
+            sub_deadline = time.monotonic() + max(0.05, (deadline - time.monotonic()) / (len(groups) - k))
+            on = [sets[0].on[j] for j in grp.outputs]
+            f = [sets[0].on[j] + sets[0].dc[j] for j in grp.outputs]
+            if options.phase:
+                on += [sets[1].on[j] for j in grp.outputs]
+                f += [sets[1].on[j] + sets[1].dc[j] for j in grp.outputs]
+            seed_cubes = [c for c in (grp.to_problem(c, inverted) for c in heur or ()) if c.outputs]
+            seed_sel = grp.selected(inverted)
             if per_output:
-                progress.stage(f"output {table.output_names[group[0]]}")
-            pb, res = solve_exact(sub_on, sub_dc, n, sub_heur, sub_deadline, progress)
-            got = [Cube(c.care, c.value, _spread(c.outputs, group)) for c in _irredundant(pb, res.chosen)]
-            if heur is not None and len(got) > len(sub_heur):  # the solver did worse than its seed: keep the seed
-                got = [Cube(c.care, c.value, _spread(c.outputs, group)) for c in sub_heur]
-            cubes += got
-            optimal &= res.optimal
-            lits_optimal &= res.literals_optimal
-            bound += res.lower_bound
-            stats += [(f"{k}:{key}" if per_output else key, v) for key, v in res.stats]
-    return checked_cover(table, cubes, options, inverted, "exact", optimal, bound,
+                progress.stage(f"output {table.output_names[grp.outputs[0]]}")
+            try:
+                pb, res = solve_exact(f, on, n, seed_cubes, seed_sel, len(grp.outputs) if grp.phase else 0,
+                                      replace(budget, deadline=sub_deadline), max_primes, progress)
+            except TimeLimit:
+                if heur is None:
+                    raise
+                got, sel = seed_cubes, seed_sel
+                optimal = lits_optimal = False
+                stats.append((f"{k}:stopped" if per_output else "stopped", "time limit"))
+            else:
+                got, sel = _irredundant(pb, res.chosen, res.outputs), res.outputs
+                if heur is not None and term_count(got, per_output) > term_count(seed_cubes, per_output):
+                    got, sel = seed_cubes, seed_sel  # the solver did worse than its seed: keep the seed
+                optimal &= res.optimal
+                lits_optimal &= res.literals_optimal
+                bound += res.lower_bound
+                stats += [(f"{k}:{key}" if per_output else key, v) for key, v in res.stats]
+            cubes += [grp.to_table(c) for c in got]
+            final_inv |= grp.inverted(sel) if grp.phase else inverted & sum(1 << j for j in grp.outputs)
+    return checked_cover(table, cubes, options, final_inv, "exact", optimal, bound,
                          tuple(stats) + (("literals_optimal", lits_optimal),))
-
-
-def _squeeze(outputs: int, group: Sequence[int]) -> int:
-    return sum(1 << k for k, j in enumerate(group) if outputs >> j & 1)
-
-
-def _spread(outputs: int, group: Sequence[int]) -> int:
-    return sum(1 << j for k, j in enumerate(group) if outputs >> k & 1)

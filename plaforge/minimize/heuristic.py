@@ -197,22 +197,15 @@ def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
     return sort_cubes(merge_identical(cubes))
 
 
-#: Most inputs for which the heuristic path also computes the independent-target lower bound of the exact path.
-BOUND_LIMIT = 10
-
-
 def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0) -> Cover:
     """Heuristic cover of ``table`` (outputs in ``inverted`` realized in complement), verified.
 
-    ``lower_bound`` is :func:`plaforge.minimize.covering.quick_lower_bound` up to :data:`BOUND_LIMIT` inputs (1
-    above it when some output is nonempty); ``optimal`` is true only when the cover meets that bound, which then
-    proves it minimum.
+    ``lower_bound`` is :func:`plaforge.minimize.covering.quick_lower_bound` (budgeted, any width); ``optimal`` is
+    true only when the cover meets that bound, which then proves it minimum.
     """
     fs = table.cover_sets(inverted)
     cubes = heuristic_cubes(fs, options)
     per_output = options.cost == "per-output"
     count = term_count(cubes, per_output)
-    bound = 1 if any(fs.on) else 0
-    if table.n_inputs <= BOUND_LIMIT:
-        bound = max(bound, quick_lower_bound(fs, per_output))
+    bound = quick_lower_bound(fs, per_output)
     return checked_cover(table, cubes, options, inverted, "heuristic", count <= bound, bound)

@@ -12,24 +12,36 @@ problem with a different cost. The method follows output phase assignment for PL
    the estimate most, while some flip does (each estimate is a set union: cheap).
 3. *Local search with real costs.* Re-minimize the chosen assignment, then try single-output flips, each
    re-minimized, keeping any that lowers the true cost (rows then literals; per-output terms then literals under
-   the per-output cost), until none does or half the time limit is spent.
+   the per-output cost), until none does.
+
+The whole search is budgeted: at most :data:`BUDGET_FACTOR` times the all-true-phase minimization (plus a second)
+and :data:`BUDGET_SHARE` of the time left; when the budget ends it returns the best assignment so far and says it
+stopped early. The exact path does not depend on it for optimality: it only seeds the all-assignment model of
+:mod:`plaforge.minimize.exact`.
 
 Under the ``per-output`` cost the outputs do not interact, so each output simply takes the cheaper of ``f_j`` and
 ``¬f_j`` minimized alone. The result is never worse than all-true phase, which is always evaluated.
-Cost: ``1 + O(m)`` heuristic minimizations per pass of step 3.
+Cost: ``1 + O(m)`` heuristic minimizations per pass of step 3, within the budget.
 """
 
 from __future__ import annotations
 
 import time
+from dataclasses import replace
 
 from ..core.cube import Cube
+from ..core.errors import TimeLimit
 from ..core.table import FunctionSets, Table
 from .heuristic import heuristic_cubes
 from .options import MinimizeOptions
 from .result import term_count
 
-__all__ = ["assign_phases", "phase_cost"]
+__all__ = ["BUDGET_FACTOR", "BUDGET_SHARE", "assign_phases", "phase_cost"]
+
+#: The search may spend this many times the all-true-phase minimization (plus a second).
+BUDGET_FACTOR = 4
+#: ... and at most this share of the time left in the call.
+BUDGET_SHARE = 0.5
 
 
 def phase_cost(cubes: list[Cube], per_output: bool) -> tuple[int, int]:
@@ -54,51 +66,68 @@ def _estimate(cubes: list[Cube], m: int, inverted: int) -> int:
     return sum(1 for c in cubes if c.outputs & want)
 
 
-def assign_phases(table: Table, options: MinimizeOptions) -> int:
-    """Bitmask of outputs to realize in complement (bit ``j``: output ``j``); 0 when true phase is best."""
+def assign_phases(table: Table, options: MinimizeOptions, deadline: float) -> tuple[int, bool]:
+    """Bitmask of outputs to realize in complement (bit ``j``: output ``j``; 0 when true phase is best), and whether
+    the search ran to its end (false when its budget cut it short).
+
+    Budget: at most :data:`BUDGET_FACTOR` times the all-true-phase minimization (plus a second), and never past
+    :data:`BUDGET_SHARE` of the time left before ``deadline`` (``time.monotonic()``).
+    """
     m = table.n_outputs
     per_output = options.cost == "per-output"
-    deadline = time.monotonic() + options.time_limit / 2
+    start = time.monotonic()
+    share_end = start + (deadline - start) * BUDGET_SHARE
+    first = heuristic_cubes(table.cover_sets(0), replace(options, time_limit=max(0.05, share_end - start)))
+    best_inv, best = 0, phase_cost(first, per_output)
+    end = min(share_end, time.monotonic() + BUDGET_FACTOR * (time.monotonic() - start) + 1.0)
 
-    def cost(inv: int) -> tuple[int, int]:
-        return phase_cost(heuristic_cubes(table.cover_sets(inv), options), per_output)
+    def run(fs: FunctionSets) -> list[Cube] | None:
+        left = end - time.monotonic()
+        if left <= 0:
+            return None
+        try:
+            return heuristic_cubes(fs, replace(options, time_limit=left))
+        except TimeLimit:
+            return None
 
+    if m == 0:
+        return 0, True
     if per_output:
-        true_cubes = heuristic_cubes(table.cover_sets(0), options)
-        comp_cubes = heuristic_cubes(table.cover_sets((1 << m) - 1), options)
+        comp_cubes = run(table.cover_sets((1 << m) - 1))
+        if comp_cubes is None:
+            return 0, False
         inverted = 0
         for j in range(m):
-            a = phase_cost([c for c in true_cubes if c.outputs >> j & 1], True)
+            a = phase_cost([c for c in first if c.outputs >> j & 1], True)
             b = phase_cost([c for c in comp_cubes if c.outputs >> j & 1], True)
             if b < a:
                 inverted |= 1 << j
-        return inverted
-
-    best_inv, best = 0, cost(0)
-    if m == 0:
-        return 0
+        return inverted, True
     # steps 1-2: choose on the double-phase cover
-    double = heuristic_cubes(_double_phase(table), options)
+    double = run(_double_phase(table))
+    if double is None:
+        return 0, False
     inv, est = 0, _estimate(double, m, 0)
     while True:
-        trials = [(_estimate(double, m, inv ^ (1 << j)), j) for j in range(m)]
-        e, j = min(trials)
+        e, j = min((_estimate(double, m, inv ^ (1 << j)), j) for j in range(m))
         if e >= est:
             break
         inv, est = inv ^ (1 << j), e
     if inv != 0:
-        c = cost(inv)
-        if c < best:
-            best_inv, best = inv, c
+        cubes = run(table.cover_sets(inv))
+        if cubes is None:
+            return best_inv, False
+        if phase_cost(cubes, per_output) < best:
+            best_inv, best = inv, phase_cost(cubes, per_output)
     # step 3: single flips with real costs
     improved = True
-    while improved and time.monotonic() < deadline:
+    while improved:
         improved = False
         for j in range(m):
-            if time.monotonic() >= deadline:
-                break
             trial = best_inv ^ (1 << j)
-            c = cost(trial)
-            if c < best:
-                best_inv, best, improved = trial, c, True
-    return best_inv
+            cubes = run(table.cover_sets(trial))
+            if cubes is None:
+                return best_inv, False
+            if phase_cost(cubes, per_output) < best:
+                best_inv, best, improved = trial, phase_cost(cubes, per_output), True
+    return best_inv, True

@@ -14,18 +14,24 @@ def cover_summary(cover: Cover) -> dict[str, Any]:
 
     >>> from plaforge.core.cube import Cover, Cube
     >>> s = cover_summary(Cover(("a", "b"), ("y",), (Cube.parse("11"),), method="heuristic"))
-    >>> s["rows"], s["terms"], s["literals"]
-    (1, {'y': 1}, 2)
+    >>> s["rows"], s["terms"], s["literals"], s["terms_total"], s["lower_bound"]
+    (1, {'y': 1}, 2, 1, None)
     """
+    terms = cover.terms()
+    counted = sum(terms.values()) if cover.cost == "per-output" else cover.rows
     return {
         "inputs": cover.n_inputs,
         "outputs": cover.n_outputs,
         "rows": cover.rows,
-        "terms": cover.terms(),
+        "terms": terms,
+        "terms_total": sum(terms.values()),
         "literals": cover.literals,
         "method": cover.method,
+        "cost": cover.cost,
         "optimal": bool(cover.optimal),
-        "lower_bound": int(cover.lower_bound),
+        "lower_bound": int(cover.lower_bound) if cover.lower_bound > 0 or counted == 0 else None,
+        "inverted": [name for j, name in enumerate(cover.output_names) if cover.is_inverted(j)],
+        "stopped_early": [str(v) for k, v in cover.extra if k.endswith("stopped")],
         "seconds": round(float(cover.seconds), 3),
     }
 
@@ -41,6 +47,8 @@ def format_summary(cover: Cover) -> str:
         count = f"{s['rows']} rows (distinct product terms)"
     if s["optimal"]:
         verdict = "proven minimum"
+    elif s["lower_bound"] is None:
+        verdict = "not proven minimum: no lower bound known"
     else:
         verdict = f"not proven minimum: lower bound {s['lower_bound']}, gap {total - s['lower_bound']}"
     terms = ", ".join(f"{k} {v}" for k, v in s["terms"].items())
@@ -48,8 +56,9 @@ def format_summary(cover: Cover) -> str:
         f"{count}, {s['literals']} literals, {s['inputs']} inputs -> {s['outputs']} outputs",
         f"terms per output: {terms}",
     ]
-    if cover.inverted:
-        inv = [name for j, name in enumerate(cover.output_names) if cover.is_inverted(j)]
-        lines.append(f"realized in complement: {', '.join(inv)}")
+    if s["inverted"]:
+        lines.append(f"realized in complement: {', '.join(s['inverted'])}")
+    if s["stopped_early"]:
+        lines.append(f"stopped early at a limit: {', '.join(s['stopped_early'])}")
     lines.append(f"{s['method']} ({cover.cost} cost): {verdict}; {s['seconds']:.3f} s")
     return "\n".join(lines)
