@@ -328,7 +328,7 @@ def _view(key: str, ports: dict[str, tuple[int, int]]) -> tuple[str, int, int]:
 
 def _match(value: object, actual: int, width: int) -> bool:
     if isinstance(value, list):
-        return any(_match(v, actual, width) for v in value)
+        return any([_match(v, actual, width) for v in value])  # every item, so each is checked to fit
     if isinstance(value, dict):
         v, mask = value["value"], value["mask"]
         return actual & mask == v
