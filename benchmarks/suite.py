@@ -242,6 +242,64 @@ def wide_cubes(n: int = 40, m: int = 4, terms: int = 24, seed: int = 7) -> Table
                  source=f"wide{n}")
 
 
+# -- added for the LUT benchmark (issue 12) --------------------------------------------------------------------------
+def sine_table(n: int = 8) -> Table:
+    """``y = round(127.5 + 127.5 * sin(2 pi x / 2**n))`` for n-bit ``x``; 8 output bits."""
+    import math
+
+    vals = np.array([round(127.5 + 127.5 * math.sin(2 * math.pi * x / (1 << n))) for x in range(1 << n)],
+                    dtype=np.int64)
+    return _make(_bus("x", n), _bus("y", 8), lambda p: _bits(vals[p], 8), None, f"sine{n}")
+
+
+def adder_msb_first(n: int) -> Table:
+    """``adder(n)`` with each operand's columns given most significant bit first (``a[n-1] .. a[0], b[n-1] ..
+    b[0]``): the same function, another column order."""
+    def fn(p: np.ndarray) -> Arrays:
+        a = sum(((p >> (n - 1 - i)) & 1) << i for i in range(n))
+        b = sum(((p >> (2 * n - 1 - i)) & 1) << i for i in range(n))
+        return _bits(a + b, n + 1)
+    names = [f"a[{i}]" for i in reversed(range(n))] + [f"b[{i}]" for i in reversed(range(n))]
+    return _make(names, _bus("s", n + 1), fn, None, f"add{n}msb")
+
+
+def fd_rows(n: int = 20, m: int = 5, rows: int = 41, seed: int = 12) -> Table:
+    """A seeded ON/don't-care row list (OFF implicit), as a hand-written PLA of ``rows`` rows: each row tests about
+    60% of the ``n`` inputs and puts each output ON (30%), don't-care (15%) or leaves it."""
+    rng = np.random.default_rng(seed)
+    on: list[list[Cube]] = [[] for _ in range(m)]
+    dc: list[list[Cube]] = [[] for _ in range(m)]
+    for _ in range(rows):
+        care = value = 0
+        for i in range(n):
+            if rng.random() < 0.6:
+                care |= 1 << i
+                value |= int(rng.integers(0, 2)) << i
+        marks = rng.random(m)
+        if not (marks < 0.45).any():
+            marks[int(rng.integers(0, m))] = 0.0
+        for j in range(m):
+            if marks[j] < 0.3:
+                on[j].append(Cube(care, value, 1 << j))
+            elif marks[j] < 0.45:
+                dc[j].append(Cube(care, value, 1 << j))
+    return Table(tuple(_bus("x", n)), tuple(_bus("y", m)), tuple(map(tuple, on)), tuple(map(tuple, dc)),
+                 (None,) * m, source=f"fd{n}x{m}")
+
+
+def onoff_rows(n: int = 20, rows: int = 6000, seed: int = 13) -> Table:
+    """``rows`` seeded random points of ``n`` inputs, each with its three outputs given ON or OFF (every other
+    point don't-care): ``y[0]`` is the parity of inputs 0-4, ``y[1]`` whether the 4-bit field at inputs 5-8
+    exceeds the one at 9-12, ``y[2]`` whether at least 4 of inputs 13-19 are 1."""
+    rng = np.random.default_rng(seed)
+    pts = np.unique(rng.integers(0, 1 << n, size=rows, dtype=np.int64))
+    ys = [_popcount(pts, 5) & 1 == 1, _field(pts, 5, 4) > _field(pts, 9, 4), _popcount(pts >> 13, 7) >= 4]
+    full = (1 << n) - 1
+    on = tuple(tuple(Cube(full, int(p), 1 << j) for p in pts[y]) for j, y in enumerate(ys))
+    off = tuple(tuple(Cube(full, int(p), 1 << j) for p in pts[~y]) for j, y in enumerate(ys))
+    return Table(tuple(_bus("x", n)), tuple(_bus("y", 3)), on, (None,) * 3, off, source=f"onoff{n}")
+
+
 # -- the suite -----------------------------------------------------------------------------------------------------
 def _entry(name: str, build: Callable[[], Table], inputs: int, outputs: int, description: str,
            wide: bool = False) -> tuple[str, SuiteEntry]:

@@ -22,8 +22,11 @@ from .group import cli
               help="Also write a C header with every INIT as a constant.")
 @click.option("--objective", type=click.Choice(["area", "depth"]), default="area", show_default=True,
               help="Prefer fewer LUTs or fewer levels when the mapper has a choice.")
+@click.option("--time-limit", "time_limit", type=click.FloatRange(min=0, min_open=True), default=None,
+              help="Seconds for the mapping; past them the rest is mapped the quick way (exit 3 only if even that "
+                   "cannot finish).")
 def luts_cmd(spec: str, k: int, out: str | None, as_json: bool, init_format: str, pad: bool,
-             c_header_path: str | None, objective: str) -> None:
+             c_header_path: str | None, objective: str, time_limit: float | None) -> None:
     """Map SPEC onto k-input LUTs and list each LUT's fan-ins and INIT.
 
     Every output is re-checked against SPEC (exhaustively, or with a SAT proof for wide tables) before anything
@@ -37,7 +40,8 @@ def luts_cmd(spec: str, k: int, out: str | None, as_json: bool, init_format: str
 
     refuse_clobbering([("SPEC", spec)], [("-o", out), ("--c-header", c_header_path)])
     table = read_spec(spec)
-    net = map_luts(table, minimize(table), k, LutOptions(objective=objective))  # type: ignore[arg-type]
+    opts = LutOptions(objective=objective, time_limit=time_limit)  # type: ignore[arg-type]
+    net = map_luts(table, minimize(table), k, opts)
     if out is not None:
         write_text_atomic(out, net.to_json())
     shown = padded_network(net) if pad else net

@@ -20,7 +20,8 @@ from collections.abc import Sequence
 import numpy as np
 
 from ..core.cube import Cover, Cube
-from ..core.table import Table, unpack_bits
+from ..core.table import Table
+from .points import PointSets
 
 __all__ = ["CANON_LIMIT", "canonical_order", "permute_cover", "permute_table"]
 
@@ -34,12 +35,8 @@ def canonical_order(table: Table) -> tuple[int, ...]:
         return tuple(range(n))
     pts = np.arange(1 << n, dtype=np.int64)
     lits = [((pts >> i) & 1).astype(bool) for i in range(n)]
-    ons, offs = [], []
-    for j in range(m):
-        on_bits, dc_bits = table.truth(j, CANON_LIMIT)
-        on, dc = unpack_bits(on_bits, n), unpack_bits(dc_bits, n)
-        ons.append(on & ~dc)
-        offs.append(~on & ~dc)
+    sets = PointSets(table)
+    ons, offs = [sets(j)[0] for j in range(m)], [sets(j)[1] for j in range(m)]
     first = []
     for i in range(n):
         sig = []

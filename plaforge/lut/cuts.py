@@ -31,10 +31,12 @@ Cost: ``O(nodes * cuts^fanin)`` for enumeration; fine for the few thousand nodes
 
 from __future__ import annotations
 
+import time
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 from ..core.cube import Cover
+from ..core.errors import TimeLimit
 from ..core.network import Lut, LutNetwork
 from .options import LutOptions
 
@@ -118,12 +120,14 @@ def _prune(sets: set[frozenset[int]]) -> list[frozenset[int]]:
 HARD_CUT_CAP = 400
 
 
-def _enumerate_cuts(g: SubjectGraph, k: int, limit: int) -> tuple[list[list[tuple[int, ...]]], bool]:
+def _enumerate_cuts(g: SubjectGraph, k: int, limit: int,
+                    deadline: float | None = None) -> tuple[list[list[tuple[int, ...]]], bool]:
     """Non-trivial cuts per node (sorted tuples), trivial cut excluded; and whether no list was truncated.
 
     Fan-in cut lists are merged one fan-in at a time, dropping unions above k and dominated unions at every
     step (safe: if ``a ⊆ b`` then ``a ∪ x ⊆ b ∪ x``). ``limit`` 0 keeps everything up to a safety cap of
-    ``HARD_CUT_CAP`` cuts per node.
+    ``HARD_CUT_CAP`` cuts per node. Past ``deadline`` (``time.monotonic()``) it raises
+    :class:`plaforge.core.errors.TimeLimit`.
     """
     cuts: list[list[tuple[int, ...]]] = []
     exhaustive = True
@@ -131,6 +135,9 @@ def _enumerate_cuts(g: SubjectGraph, k: int, limit: int) -> tuple[list[list[tupl
     depth = [0] * len(g)
     for v in range(len(g)):
         fan = g.fanins[v]
+        if deadline is not None and v % 64 == 0 and time.monotonic() > deadline:
+            raise TimeLimit(f"LUT mapping did not finish within the time limit (cut enumeration at node {v} of "
+                            f"{len(g)})", option="--time-limit")
         if v < g.n_pis or not fan:
             cuts.append([])
             continue
@@ -191,7 +198,7 @@ def cut_function(g: SubjectGraph, v: int, leaves: Sequence[int]) -> int:
 
 
 def map_subject(g: SubjectGraph, k: int, cut_limit: int = 0, relax: bool = False,
-                area_passes: int = 2, per_output: bool = False) -> CutMapping:
+                area_passes: int = 2, per_output: bool = False, deadline: float | None = None) -> CutMapping:
     """Map a subject graph onto k-LUTs (see module docs).
 
     Parameters
@@ -206,10 +213,12 @@ def map_subject(g: SubjectGraph, k: int, cut_limit: int = 0, relax: bool = False
     per_output : bool
         Hold every output at its own optimal label (instead of the deepest output's): no output gets deeper than
         its labelling allows, at some cost in area.
+    deadline : float or None
+        ``time.monotonic()`` after which cut enumeration raises :class:`plaforge.core.errors.TimeLimit`.
     area_passes : int
         Area-flow passes before the exact-area pass.
     """
-    cuts, exhaustive = _enumerate_cuts(g, k, cut_limit)
+    cuts, exhaustive = _enumerate_cuts(g, k, cut_limit, deadline)
     n = len(g)
     outs = [o for o in g.outputs if isinstance(o, int) and o >= g.n_pis]
     fanout = [0] * n
@@ -436,8 +445,10 @@ def graph_from_cover(cover: Cover, outputs: Sequence[int]) -> SubjectGraph:
     return g
 
 
-def map_cover_outputs(net: LutNetwork, cover: Cover, outputs: Sequence[int], options: LutOptions) -> LutNetwork:
-    """Add the cut-mapped LUTs of ``outputs`` (from ``cover``) to ``net`` and drive those outputs with them."""
+def map_cover_outputs(net: LutNetwork, cover: Cover, outputs: Sequence[int], options: LutOptions,
+                      deadline: float | None = None) -> LutNetwork:
+    """Add the cut-mapped LUTs of ``outputs`` (from ``cover``) to ``net`` and drive those outputs with them
+    (:class:`plaforge.core.errors.TimeLimit` past ``deadline``)."""
     g = graph_from_cover(cover, outputs)
     used = {lut.name for lut in net.luts}
     for v in range(g.n_pis, len(g)):
@@ -445,7 +456,7 @@ def map_cover_outputs(net: LutNetwork, cover: Cover, outputs: Sequence[int], opt
         while name in used or name in net.input_names:
             name = "@" + name
         g.names[v] = name
-    m = map_subject(g, net.k, options.cut_limit)
+    m = map_subject(g, net.k, options.cut_limit, deadline=deadline)
     luts, drivers = mapping_to_luts(m)
     new_drivers = list(net.drivers)
     for j, d in zip(outputs, drivers):

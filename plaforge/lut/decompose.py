@@ -38,6 +38,7 @@ Cost per step: ``O(candidates * 2**|S|)`` numpy element operations.
 from __future__ import annotations
 
 import math
+import time
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from itertools import combinations
@@ -144,10 +145,22 @@ class NetworkBuilder:
     by_struct: dict[tuple[tuple[str, ...], int], str] = field(default_factory=dict)
     index: dict[str, int] = field(default_factory=dict)
     budget_end: int | None = None
+    work: int = 0
+    work_end: int | None = None
+    deadline: float | None = None
     _universes: dict[tuple[int, ...], Universe] = field(default_factory=dict)
 
     def __post_init__(self) -> None:
         self.index = {name: i for i, name in enumerate(self.input_names)}
+
+    def charge(self, elements: int) -> None:
+        """Count ``elements`` array elements of work; raise OverBudget past ``work_end`` or the wall-clock
+        ``deadline`` (``time.monotonic()``)."""
+        self.work += elements
+        if self.work_end is not None and self.work > self.work_end:
+            raise OverBudget("more than the work budget for one output")
+        if self.deadline is not None and time.monotonic() > self.deadline:
+            raise OverBudget("past the time limit")
 
     def universe(self, inputs: tuple[int, ...]) -> Universe:
         u = self._universes.get(inputs)
@@ -273,6 +286,7 @@ class Decomposer:
         keep = list(range(len(sigs)))
         for b in (order if order is not None else range(len(sigs))):
             trial = [x for x in keep if x != b]
+            self.builder.charge(len(trial) * on.size)
             if local_function([arrays[x] for x in trial], on, off) is not None:
                 keep = trial
         return [sigs[x] for x in keep], [arrays[x] for x in keep]
@@ -412,6 +426,7 @@ class Decomposer:
 
         def score(b: tuple[int, ...]) -> tuple[int, list[int]]:
             if b not in evaluated:
+                self.builder.charge(1 << m)
                 evaluated[b] = _column_classes(on_l, off_l, m, b, full_care)
             return evaluated[b]
 
@@ -481,6 +496,7 @@ class Decomposer:
         e_r = u.restrict(e, esup)
         count = 0
         for p in self.pending[:8]:
+            self.builder.charge(p.on.size)
             if any(i not in p.universe.pos for i in esup):
                 continue
             g = p.universe.expand(esup, e_r)

@@ -27,155 +27,27 @@ Pipeline
 7. Fan-ins a LUT ignores are dropped, equal LUTs merged (structural hashing), dead LUTs removed, LUTs renamed
    ``n0, n1, ...`` in topological order, and the network is re-checked against the table.
 
-Lower bounds (``LutNetwork.lower_bounds``)
-------------------------------------------
-``e_j`` is the number of *essential* inputs of output ``j``: inputs ``i`` with an ON point and an OFF point that
-differ in input ``i`` alone; every realization depends on them, whatever the don't-cares become (without
-don't-cares ``e_j = |S_j|``).
-
-* ``count >= max_j ceil((e_j - 1) / (k - 1))``: a tree of ``c`` k-LUTs has at most ``c (k - 1) + 1`` leaves;
-* ``count >= D``: ``D`` outputs that pairwise no single function can serve (an ON point of one is an OFF point of
-  the other), none realizable without a LUT (a constant or a plain input), need ``D`` distinct LUTs driving
-  them (a greedy pairwise-incompatible set is used);
-* ``depth >= max_j ceil(log_k e_j)``: ``d`` levels of k-LUTs reach at most ``k**d`` inputs.
-The reported count bound is the larger of the first two.
+Lower bounds: :mod:`plaforge.lut.bounds`.
 """
 
 from __future__ import annotations
 
-import math
 import re
+import time
 from collections.abc import Sequence
 
 import numpy as np
 
-from ..core.cube import Cover, Cube
-from ..core.errors import InternalError
+from ..core.cube import Cover
+from ..core.errors import InternalError, TimeLimit
 from ..core.network import Lut, LutNetwork
-from ..core.table import DEFAULT_ENUM_LIMIT, Table, cubes_bits, unpack_bits
+from ..core.table import Table
+from .bounds import OutputSets, essential_inputs, lower_bounds
 from .decompose import Decomposer, NetworkBuilder, OverBudget, Pending
 from .options import LutOptions
+from .points import POINT_LIMIT, PointSets, wrong_outputs
 
-__all__ = ["essential_inputs", "lower_bounds", "map_luts", "tidy_network"]
-
-
-def _project(cubes: Sequence[Cube], support: Sequence[int]) -> list[Cube]:
-    """Cubes restricted to ``support`` and renumbered so that ``support[b]`` becomes input ``b``."""
-    out = []
-    for c in cubes:
-        care = value = 0
-        for b, i in enumerate(support):
-            if c.care >> i & 1:
-                care |= 1 << b
-                value |= (c.value >> i & 1) << b
-        out.append(Cube(care, value))
-    return out
-
-
-def _local_sets(table: Table, j: int, support: Sequence[int]) -> tuple[np.ndarray, np.ndarray]:
-    """ON and OFF of output ``j`` over its support as boolean arrays (inputs outside the support projected away)."""
-    s = len(support)
-    on = unpack_bits(cubes_bits(_project(table.on_cubes(j), support), s), s)
-    off = unpack_bits(cubes_bits(_project(table.off_cubes(j), support), s), s)
-    if (on & off).any():
-        raise AssertionError(f"support of output {table.output_names[j]!r} drops a needed input")
-    return on, off
-
-
-def essential_inputs(table: Table, j: int) -> int:
-    """Bitmask of inputs every realization of output ``j`` depends on (see module docs). Cube operations only."""
-    on, off = table.on_cubes(j), table.off_cubes(j)
-    mask = 0
-    for i in range(table.n_inputs):
-        bit = 1 << i
-        for c in on:
-            if c.care & bit:
-                flipped = Cube(c.care, c.value ^ bit)
-                if any(flipped.intersects(o) for o in off):
-                    mask |= bit
-                    break
-    return mask
-
-
-def _trivial(table: Table, j: int) -> bool:
-    """Output ``j`` can be a constant or a plain input (no LUT at all)."""
-    on, off = table.on_cubes(j), table.off_cubes(j)
-    if not on or not off:
-        return True
-    for i in range(table.n_inputs):
-        bit = 1 << i
-        if all(c.care & bit and c.value & bit for c in on) and all(c.care & bit and not c.value & bit for c in off):
-            return True
-    return False
-
-
-def _incompatible(table: Table, a: int, b: int) -> bool:
-    return any(x.intersects(y) for x in table.on_cubes(a) for y in table.off_cubes(b)) or any(
-        x.intersects(y) for x in table.off_cubes(a) for y in table.on_cubes(b))
-
-
-def _essential_sat(table: Table, j: int) -> int:
-    from ..verify.satcnf import sat_point
-
-    mentioned = 0
-    for sets in (table.on[j], table.dc[j], table.off[j]):
-        for c in sets or ():
-            mentioned |= c.care
-    mask = 0
-    for i in range(table.n_inputs):
-        if mentioned >> i & 1 and sat_point(table, [(j, "on", 0), (j, "off", 1 << i)]) is not None:
-            mask |= 1 << i
-    return mask
-
-
-def _trivial_sat(table: Table, j: int) -> bool:
-    from ..verify.satcnf import sat_point
-
-    if sat_point(table, [(j, "on", 0)]) is None or sat_point(table, [(j, "off", 0)]) is None:
-        return True
-    for i in range(table.n_inputs):
-        if (sat_point(table, [(j, "on", 0)], [(-(i + 1),)]) is None
-                and sat_point(table, [(j, "off", 0)], [(i + 1,)]) is None):
-            return True
-    return False
-
-
-def _incompatible_sat(table: Table, a: int, b: int) -> bool:
-    from ..verify.satcnf import sat_point
-
-    return (sat_point(table, [(a, "on", 0), (b, "off", 0)]) is not None
-            or sat_point(table, [(a, "off", 0), (b, "on", 0)]) is not None)
-
-
-def lower_bounds(table: Table, k: int, enum_limit: int = DEFAULT_ENUM_LIMIT) -> dict[str, int]:
-    """Proven lower bounds on LUT count and depth for ``table`` with k-LUTs (see module docs).
-
-    Tables wider than ``enum_limit`` are examined with SAT queries on the sets as given (no complement);
-    narrower ones with cube operations.
-
-    Returns
-    -------
-    dict
-        ``{"count": c, "depth": d, "count_cone": ..., "count_outputs": ...}``; ``count`` is the larger of the two
-        count bounds.
-    """
-    sat = table.n_inputs > enum_limit
-    essential = _essential_sat if sat else essential_inputs
-    trivial = _trivial_sat if sat else _trivial
-    incompatible = _incompatible_sat if sat else _incompatible
-    cone = depth = 0
-    chosen: list[int] = []
-    triv = [trivial(table, j) for j in range(table.n_outputs)]
-    for j in range(table.n_outputs):
-        e = essential(table, j).bit_count()
-        if e >= 2:
-            cone = max(cone, math.ceil((e - 1) / (k - 1)))
-            depth = max(depth, math.ceil(math.log(e, k) - 1e-9))
-        if e >= 1 and not triv[j] and all(incompatible(table, j, c) for c in chosen):
-            chosen.append(j)
-    if not all(triv):
-        depth = max(depth, 1)
-    return {"count": max(cone, len(chosen)), "depth": depth, "count_cone": cone, "count_outputs": len(chosen)}
+__all__ = ["essential_inputs", "lower_bounds", "map_luts", "tidy_network"]  # the first two from .bounds
 
 
 def _prefix(input_names: Sequence[str], base: str = "n") -> str:
@@ -302,6 +174,8 @@ def _objective_key(objective: str):
 SMALLER_K_LIMIT = 10
 SMALLER_K_GIVE_UP = 1.5
 TWO_ORDER_LIMIT = 12
+MENTIONED_SLACK = 4  # inputs beyond the support worth keeping for their don't-cares
+COVER_CANDIDATE_LIMIT = 4000  # literals; larger covers are mapped by cuts only for outputs that need it
 
 
 def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
@@ -314,9 +188,22 @@ def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
     return [k]
 
 
-def _map_at(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -> LutNetwork:
-    """Steps 1-5 of the module docs at one LUT size (no bounds, no check)."""
-    builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@t"), global_limit=max(opts.decompose_limit, 1))
+def _decomposable(size: int, opts: LutOptions) -> bool:
+    """An output of ``size`` support inputs is decomposed on its truth table: within ``decompose_limit``, and one
+    pass dropping unneeded signals (``size**2 * 2**size`` elements) fits the work budget."""
+    return size <= opts.decompose_limit and (not opts.work_budget or size * size << size <= opts.work_budget)
+
+
+def _past(deadline: float | None) -> bool:
+    return deadline is not None and time.monotonic() > deadline
+
+
+def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: str,
+            deadline: float | None = None) -> LutNetwork:
+    """Steps 1-4 of the module docs at one LUT size (no bounds, no check)."""
+    table = sets.table
+    builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@t"),
+                             global_limit=max(opts.decompose_limit, 1), deadline=deadline)
     dec = Decomposer(builder, k, budget=opts.bound_set_budget, beam=opts.beam)
     m = table.n_outputs
     if table.n_inputs > opts.enum_limit:
@@ -325,22 +212,21 @@ def _map_at(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -
         supports = [0] * m
         sizes = [opts.decompose_limit + 1] * m
     else:
-        supports = [table.support(j) for j in range(m)]
+        supports = [sets.support(j) for j in range(m)]
         sizes = [s.bit_count() for s in supports]
-    narrow = sorted((j for j in range(m) if sizes[j] <= opts.decompose_limit), key=lambda j: (sizes[j], j))
-    wide = [j for j in range(m) if sizes[j] > opts.decompose_limit]
+    narrow = sorted((j for j in range(m) if _decomposable(sizes[j], opts)), key=lambda j: (sizes[j], j))
+    wide = [j for j in range(m) if not _decomposable(sizes[j], opts)]
     drivers: list[str] = ["0"] * m
     # outputs that one function can serve (equal, or equal up to don't-cares) are realized once
     groups: list[tuple[list[int], tuple[int, ...], np.ndarray, np.ndarray]] = []
     for j in narrow:
         # the inputs the sets mention keep every don't-care choice open (projection onto them is exact); the
-        # greedy support is used only when that is too wide
-        mentioned = 0
-        for c in table.on_cubes(j) + table.off_cubes(j):
-            mentioned |= c.care
-        mask = mentioned if mentioned.bit_count() <= opts.decompose_limit else supports[j]
+        # greedy support is used when they are too many (or many more than the support: sparse rows)
+        mentioned = sets.mentioned(j)
+        wider = mentioned.bit_count() - sizes[j]
+        mask = mentioned if wider <= MENTIONED_SLACK and _decomposable(mentioned.bit_count(), opts) else supports[j]
         sup = tuple(i for i in range(table.n_inputs) if mask >> i & 1)
-        on, off = _local_sets(table, j, sup)
+        on, off = sets.local(j, sup)
         for x, (outs, gsup, gon, goff) in enumerate(groups):
             union = tuple(sorted(set(gsup) | set(sup)))
             if len(union) > opts.decompose_limit:
@@ -359,6 +245,7 @@ def _map_at(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -
         sigs = [table.input_names[i] for i in u.inputs]
         before = len(builder.nodes)
         builder.budget_end = before + opts.lut_budget if opts.lut_budget else None
+        builder.work_end = builder.work + opts.work_budget if opts.work_budget else None
         try:
             signal = dec.realize(u, sigs, on, off)
         except OverBudget:
@@ -367,7 +254,7 @@ def _map_at(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -
             wide.extend(outs)
             continue
         finally:
-            builder.budget_end = None
+            builder.budget_end = builder.work_end = None
         for j in outs:
             drivers[j] = signal
     wide.sort()
@@ -377,8 +264,8 @@ def _map_at(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -
     if wide:
         from .cuts import map_cover_outputs
 
-        net = map_cover_outputs(net, cover, wide, opts)
-    if opts.remap and net.luts:
+        net = map_cover_outputs(net, cover, wide, opts, deadline)
+    if opts.remap and net.luts and not _past(deadline):
         from .cuts import remap_network
 
         alt = remap_network(net, opts)
@@ -387,26 +274,33 @@ def _map_at(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -
     return tidy_network(_resolve_constant_luts(net), prefix)
 
 
-def _cover_network(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str) -> LutNetwork | None:
-    """Every output mapped by cuts from the cover alone (step 3 for all outputs); ``None`` for an empty cover."""
+def _cover_network(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str,
+                   deadline: float | None) -> LutNetwork | None:
+    """Every output mapped by cuts from the cover alone (step 3 for all outputs); ``None`` for an empty cover or
+    past the deadline."""
     from .cuts import map_cover_outputs
 
-    if not cover.cubes:
+    if not cover.cubes or cover.literals > COVER_CANDIDATE_LIMIT or _past(deadline):
         return None
     m = table.n_outputs
     empty = LutNetwork(k, table.input_names, table.output_names, (), ("0",) * m, {}, "")
-    return tidy_network(_resolve_constant_luts(map_cover_outputs(empty, cover, range(m), opts)), prefix)
+    try:
+        net = map_cover_outputs(empty, cover, range(m), opts, deadline)
+    except TimeLimit:
+        return None  # an optional candidate
+    return tidy_network(_resolve_constant_luts(net), prefix)
 
 
-def _depth_pass(table: Table, net: LutNetwork, cut: LutNetwork | None, opts: LutOptions,
+def _depth_pass(sets: OutputSets, net: LutNetwork, cut: LutNetwork | None, opts: LutOptions,
                 prefix: str) -> LutNetwork:
     """The depth objective over ``net`` and the cover-only network ``cut`` (:mod:`plaforge.lut.depth`)."""
     from .depth import shallowest
 
+    table = sets.table
     k, m = net.k, table.n_outputs
     candidates = [net] + ([cut] if cut is not None else [])
     enumerable = table.n_inputs <= opts.enum_limit
-    supports = [table.support(j).bit_count() if enumerable else table.n_inputs for j in range(m)]
+    supports = [sets.support(j).bit_count() if enumerable else table.n_inputs for j in range(m)]
 
     def fallback(outputs: list[int]) -> LutNetwork | None:
         todo = [j for j in outputs if enumerable and supports[j] <= opts.decompose_limit]
@@ -417,8 +311,8 @@ def _depth_pass(table: Table, net: LutNetwork, cut: LutNetwork | None, opts: Lut
         dec = Decomposer(builder, k, reuse=False)
         drivers = ["0"] * m
         for j in todo:
-            sup = tuple(i for i in range(table.n_inputs) if table.support(j) >> i & 1)
-            on, off = _local_sets(table, j, sup)
+            sup = tuple(i for i in range(table.n_inputs) if sets.support(j) >> i & 1)
+            on, off = sets.local(j, sup)
             u = builder.universe(sup)
             drivers[j] = dec.shannon(u, [table.input_names[i] for i in u.inputs], on, off)
         luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
@@ -488,12 +382,18 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
     if table.n_inputs <= TWO_ORDER_LIMIT and canon[::-1] != canon:
         orders.append(canon[::-1])
     key = _objective_key(opts.objective)
-    best: tuple[LutNetwork, Table, Cover] | None = None
+    deadline = None if opts.time_limit is None else time.monotonic() + opts.time_limit
+    best: tuple[LutNetwork, OutputSets, Cover] | None = None
     for order in orders:
+        if best is not None and _past(deadline):
+            break
         ctable, ccover = permute_table(table, order), permute_cover(cover, order)
+        csets = OutputSets(ctable, opts.enum_limit)
         here: LutNetwork | None = None
         for kk in _sizes_tried(ctable, k, opts):
-            cand = _map_at(ctable, ccover, kk, opts, prefix)
+            if here is not None and _past(deadline):
+                break
+            cand = _map_at(csets, ccover, kk, opts, prefix, deadline)
             cand = LutNetwork(k, cand.input_names, cand.output_names, cand.luts, cand.drivers, {},
                               cand.method + ("" if kk == k else f" (k={kk})"))
             if here is not None and cand.count > SMALLER_K_GIVE_UP * here.count:
@@ -502,23 +402,27 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
                 here = cand
         assert here is not None
         if best is None or key(here) < key(best[0]):
-            best = (here, ctable, ccover)
+            best = (here, csets, ccover)
     assert best is not None
-    net, ctable, ccover = best
-    cut = _cover_network(ctable, ccover, k, opts, prefix)
+    net, csets, ccover = best
+    cut = _cover_network(csets.table, ccover, k, opts, prefix, deadline)
     if cut is not None and key(cut) < key(net):
         net = cut
-    if opts.objective == "depth":
-        net = _depth_pass(ctable, net, cut, opts, prefix)
-    bounds = lower_bounds(table, k, opts.enum_limit)
+    if opts.objective == "depth" and not _past(deadline):
+        net = _depth_pass(csets, net, cut, opts, prefix)
+    points = PointSets(table) if table.n_inputs <= min(POINT_LIMIT, opts.enum_limit) else None
+    bounds = lower_bounds(table, k, opts.enum_limit, points)
     net = LutNetwork(net.k, table.input_names, net.output_names, _spec_order_fanins(net, table.input_names),
                      net.drivers, bounds, net.method)
     if opts.verify:
-        from ..verify.satcnf import check_network_any
+        if points is not None:
+            bad = wrong_outputs(net, points)
+        else:
+            from ..verify.satcnf import check_network_any
 
-        verdict = check_network_any(table, net, limit=opts.enum_limit)
-        if not verdict.passed:
+            verdict = check_network_any(table, net, limit=opts.enum_limit)
             bad = [o.name for o in verdict.outputs if not o.passed]
+        if bad:
             raise InternalError(f"LUT mapping produced a wrong network for outputs {bad}: a bug, unless the cover "
                                 "given to map_luts does not realize those outputs")
     return net

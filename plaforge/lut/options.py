@@ -23,6 +23,15 @@ class LutOptions:
     lut_budget : int
         Most LUTs the decomposition may build for one output (group); past it that output is rolled back and
         mapped by cuts on the cover instead (0: no budget). Keeps irregular wide functions from running long.
+    work_budget : int
+        Most array elements the decomposition may process for one output (group), a machine-independent measure
+        of its time; past it that output is rolled back and mapped by cuts on the cover (0: no budget). Roughly
+        25 to 50 ns per element.
+    time_limit : float or None
+        Wall-clock seconds for the whole mapping (None: no limit). Once it has passed, outputs not yet decomposed
+        are mapped by cuts on the cover and the optional passes (other orders, smaller sizes, remapping, depth)
+        are skipped; :class:`plaforge.core.errors.TimeLimit` only when even that cannot finish in time. Results
+        then depend on the machine's speed; without a limit they do not.
     bound_set_budget : int
         Bound sets scored per decomposition step when every subset of up to k variables is tried; above it a beam
         search grows bound sets one variable at a time.
@@ -39,7 +48,8 @@ class LutOptions:
         is never reached (``LutNetwork.method`` says which), is the depth the minimum over all k-feasible cut
         covers of the subject graph.
     verify : bool
-        Re-check the finished network against the table (exhaustive within ``enum_limit``, SAT beyond) and raise
+        Re-check the finished network against the table (on point arrays up to 20 inputs, exhaustive within
+        ``enum_limit`` by :mod:`plaforge.verify` beyond that, SAT wider still) and raise
         :class:`plaforge.core.errors.InternalError` on a mismatch (a wrong mapping is a bug, not a failed check).
     enum_limit : int
         Enumeration limit for that check.
@@ -47,6 +57,8 @@ class LutOptions:
 
     decompose_limit: int = 20
     lut_budget: int = 2000
+    work_budget: int = 1 << 25
+    time_limit: float | None = None
     bound_set_budget: int = 1500
     beam: int = 8
     objective: Literal["area", "depth"] = "area"
@@ -56,11 +68,15 @@ class LutOptions:
     enum_limit: int = DEFAULT_ENUM_LIMIT
 
     def __post_init__(self) -> None:
-        for name in ("decompose_limit", "lut_budget", "bound_set_budget", "beam", "cut_limit", "enum_limit"):
+        for name in ("decompose_limit", "lut_budget", "work_budget", "bound_set_budget", "beam", "cut_limit",
+                     "enum_limit"):
             value = getattr(self, name)
             if not isinstance(value, int) or isinstance(value, bool) or value < 0:
                 raise ValueError(f"LutOptions.{name} must be a non-negative int, not {value!r}")
         if self.decompose_limit > 22:
             raise ValueError(f"LutOptions.decompose_limit must be at most 22, not {self.decompose_limit!r}")
+        if self.time_limit is not None and (isinstance(self.time_limit, bool) or
+                                            not isinstance(self.time_limit, (int, float)) or self.time_limit <= 0):
+            raise ValueError(f"LutOptions.time_limit must be a positive number of seconds, not {self.time_limit!r}")
         if self.objective not in ("area", "depth"):
             raise ValueError(f"LutOptions.objective must be 'area' or 'depth', not {self.objective!r}")
