@@ -103,7 +103,8 @@ def _arrays(cubes: Sequence[Cube]) -> tuple[np.ndarray, np.ndarray]:
 
 
 def _contained_in_any(care: np.ndarray, value: np.ndarray, dcare: np.ndarray, dvalue: np.ndarray,
-                      strict_tags: tuple[np.ndarray, np.ndarray] | None = None, strict: bool = True) -> np.ndarray:
+                      budget: Budget, strict_tags: tuple[np.ndarray, np.ndarray] | None = None,
+                      strict: bool = True) -> np.ndarray:
     """Per cube ``i``: is it inside some cube ``d`` of the second list (different from it unless ``strict`` is
     false), with, when ``strict_tags=(tags_i, tags_d)`` is given, ``tag_i ⊆ tag_d``?"""
     out = np.zeros(care.size, dtype=bool)
@@ -119,10 +120,11 @@ def _contained_in_any(care: np.ndarray, value: np.ndarray, dcare: np.ndarray, dv
             ti, td = strict_tags
             inside &= ((ti[s:s + step, None, :] & ~td[None, :, :]) == 0).all(axis=2)
         out[s:s + step] = inside.any(axis=1)
+        budget.time("comparing cubes")
     return out
 
 
-def _scc(care: np.ndarray, value: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def _scc(care: np.ndarray, value: np.ndarray, budget: Budget) -> tuple[np.ndarray, np.ndarray]:
     """Distinct cubes none of which lies inside another (fewest literals first)."""
     if care.size <= 1:
         return care, value
@@ -130,13 +132,13 @@ def _scc(care: np.ndarray, value: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     care, value = pairs[:, 0], pairs[:, 1]
     order = np.argsort(popcount(care), kind="stable")
     care, value = care[order], value[order]
-    drop = _contained_in_any(care, value, care, value)
+    drop = _contained_in_any(care, value, care, value, budget)
     return care[~drop], value[~drop]
 
 
 def _single_primes(care: np.ndarray, value: np.ndarray, budget: Budget) -> tuple[np.ndarray, np.ndarray]:
     """Primes of the single-output function covered by the cubes ``care``/``value`` (see the module docs)."""
-    care, value = _scc(care, value)
+    care, value = _scc(care, value, budget)
     if care.size == 0 or (care == 0).any():
         return (np.zeros(1, np.int64), np.zeros(1, np.int64)) if care.size else (care, value)
     pos = np.bitwise_or.reduce(care & value)
@@ -159,9 +161,9 @@ def _single_primes(care: np.ndarray, value: np.ndarray, budget: Budget) -> tuple
     p0c, p0v = _single_primes(care[~pos_lit] & ~b, value[~pos_lit] & ~b, budget)
     p1c, p1v = _single_primes(care[~neg_lit] & ~b, value[~neg_lit] & ~b, budget)
     cc, cv = _intersections(p0c, p0v, p1c, p1v, budget)
-    cc, cv = _scc(cc, cv)
-    keep0 = ~_contained_in_any(p0c, p0v, cc, cv, strict=False)
-    keep1 = ~_contained_in_any(p1c, p1v, cc, cv, strict=False)
+    cc, cv = _scc(cc, cv, budget)
+    keep0 = ~_contained_in_any(p0c, p0v, cc, cv, budget, strict=False)
+    keep1 = ~_contained_in_any(p1c, p1v, cc, cv, budget, strict=False)
     return (np.concatenate([cc, p0c[keep0] | b, p1c[keep1] | b]),
             np.concatenate([cv, p0v[keep0], p1v[keep1] | b]))
 
@@ -185,7 +187,7 @@ def _intersections(ac: np.ndarray, av: np.ndarray, bc: np.ndarray, bv: np.ndarra
     return out + ((np.concatenate(parts_i) if parts_i else empty),) if index else out
 
 
-def _meets_any(care: np.ndarray, value: np.ndarray, oc: np.ndarray, ov: np.ndarray) -> np.ndarray:
+def _meets_any(care: np.ndarray, value: np.ndarray, oc: np.ndarray, ov: np.ndarray, budget: Budget) -> np.ndarray:
     out = np.zeros(care.size, dtype=bool)
     if oc.size == 0:
         return out
@@ -193,6 +195,7 @@ def _meets_any(care: np.ndarray, value: np.ndarray, oc: np.ndarray, ov: np.ndarr
     for s in range(0, care.size, step):
         c, v = care[s:s + step, None], value[s:s + step, None]
         out[s:s + step] = (((v ^ ov[None, :]) & c & oc[None, :]) == 0).any(axis=1)
+        budget.time("relating primes to the ON set")
     return out
 
 
@@ -216,7 +219,7 @@ def multi_output_primes(f: Sequence[Sequence[Cube]], on: Sequence[Sequence[Cube]
         if not f[k]:
             continue
         pc, pv = _single_primes(*_arrays(f[k]), budget)
-        useful = _meets_any(pc, pv, oc, ov)
+        useful = _meets_any(pc, pv, oc, ov, budget)
         pc, pv = pc[useful], pv[useful]
         if pc.size == 0:
             continue
@@ -245,7 +248,6 @@ def _merge_and_filter(care: np.ndarray, value: np.ndarray, tags: np.ndarray,
     care, value = pairs[:, 0], pairs[:, 1]
     order = np.lexsort((value, care, popcount(care)))
     care, value, merged = care[order], value[order], merged[order]
-    budget.size(care.size * float(care.size) * (2 + merged.shape[1]) / 64, "to compare candidate primes")
     lits = popcount(care)
     drop = np.zeros(care.size, dtype=bool)
     # a cube can only lie strictly inside cubes with fewer literals: compare each literal level with those before it
@@ -254,7 +256,7 @@ def _merge_and_filter(care: np.ndarray, value: np.ndarray, tags: np.ndarray,
         lo, hi = starts[level], starts[level + 1]
         if lo == hi or lo == 0:
             continue
-        drop[lo:hi] = _contained_in_any(care[lo:hi], value[lo:hi], care[:lo], value[:lo],
+        drop[lo:hi] = _contained_in_any(care[lo:hi], value[lo:hi], care[:lo], value[:lo], budget,
                                         (merged[lo:hi], merged[:lo]))
         budget.time("filtering primes")
     return care[~drop], value[~drop], merged[~drop]

@@ -1,0 +1,89 @@
+"""Do ``--time-limit`` and ``--memory-limit`` hold? The exact path on the 7x7-bit multiplier table (14 in, 14 out).
+
+Run from the repository root::
+
+    python -m benchmarks.bench_limits [--limits 5 15 60] [--memory-limit 2048]
+
+Each limit runs ``plaforge minimize SPEC --exact --time-limit L --json`` in a child process (the spec is the
+multiplier written as a PLA file first) and prints, beside the limit: the child's wall time, its peak resident memory
+(``ru_maxrss`` from ``os.wait4``), its exit status, and the figures of the JSON object (rows, optimal, lower bound,
+what stopped early) or the one-line error. The wall time includes Python's start-up and reading the spec; the limit
+covers the minimize call. Exit status 1 when a run exceeds its limit by more than 10 % plus 3 s of start-up.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+from benchmarks.suite import machine, multiplier
+
+STARTUP = 3.0
+
+
+def _spec(directory: Path) -> Path:
+    """The multiplier as a ``.type f`` PLA: one row per product with some 1 bit (the other points are OFF)."""
+    table = multiplier(7, 7)
+    n, m = table.n_inputs, table.n_outputs
+    path = directory / "mul7x7.pla"
+    lines = [f".i {n}", f".o {m}", ".ilb " + " ".join(table.input_names), ".ob " + " ".join(table.output_names),
+             ".type f"]
+    for p in range(1 << n):
+        prod = (p & 127) * (p >> 7)
+        if prod:
+            lines.append("".join(str(p >> i & 1) for i in range(n)) + " " + "".join(str(prod >> j & 1) for j in range(m)))
+    path.write_text("\n".join(lines + [".e", ""]))
+    return path
+
+
+def run(spec: Path, limit: float, memory: int) -> tuple[float, float, int, str]:
+    """Wall seconds, peak MB (the child's own ``ru_maxrss``), exit status and a short verdict of one child run."""
+    cmd = [sys.executable, "-m", "plaforge", "minimize", str(spec), "--exact", "--time-limit", str(limit),
+           "--memory-limit", str(memory), "--json"]
+    with tempfile.TemporaryFile("w+") as out, tempfile.TemporaryFile("w+") as err:
+        t0 = time.monotonic()
+        proc = subprocess.Popen(cmd, stdout=out, stderr=err, text=True)
+        _, status, usage = os.wait4(proc.pid, 0)
+        wall = time.monotonic() - t0
+        proc.returncode = os.waitstatus_to_exitcode(status)
+        out.seek(0)
+        err.seek(0)
+        text, message = out.read(), err.read().strip()
+    code = proc.returncode
+    if code == 0:
+        d = json.loads(text)
+        verdict = (f"rows {d['rows']}, optimal {d['optimal']}, lower bound {d['lower_bound']}, "
+                   f"stopped early {d['stopped_early'] or 'no'}")
+    else:
+        verdict = message.splitlines()[-1] if message else "(no message)"
+    return wall, usage.ru_maxrss / 1024, code, verdict
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--limits", type=float, nargs="*", default=[5.0, 15.0, 60.0])
+    parser.add_argument("--memory-limit", type=int, default=2048)
+    args = parser.parse_args()
+    print(machine())
+    print(f"mul7x7 (14 in, 14 out), --exact, --memory-limit {args.memory_limit} MB")
+    print(f"{'limit s':>8} {'wall s':>8} {'peak MB':>8} {'exit':>4}  result")
+    bad = 0
+    with tempfile.TemporaryDirectory() as tmp:
+        spec = _spec(Path(tmp))
+        for limit in args.limits:
+            wall, peak, code, verdict = run(spec, limit, args.memory_limit)
+            over = wall > limit * 1.1 + STARTUP
+            bad += over
+            print(f"{limit:8.1f} {wall:8.1f} {peak:8.0f} {code:4d}  {verdict}{'  OVER THE LIMIT' if over else ''}",
+                  flush=True)
+    return 1 if bad else 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
