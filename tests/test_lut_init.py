@@ -136,10 +136,10 @@ def test_dont_cares_allow_sharing():
 # -- C header -----------------------------------------------------------------------------------------------------
 def test_c_header_names_and_values():
     net = _single(lambda p: _bit(p, 0) & _bit(p, 1), 2)
-    hdr = c_header(padded_network(net))
-    assert "#define LUT_N0_INIT UINT64_C(0x8888)" in hdr
-    assert "#define LUT_N0_FANINS 4" in hdr
-    assert hdr.startswith("/*") and hdr.rstrip().endswith("#endif /* PLAFORGE_LUTS_H */")
+    hdr = c_header(padded_network(net), "glue-logic")
+    assert "#define GLUE_LOGIC_LUT_N0_INIT UINT64_C(0x8888)" in hdr
+    assert "#define GLUE_LOGIC_LUT_N0_FANINS 4" in hdr
+    assert hdr.startswith("/*") and hdr.rstrip().endswith("#endif /* GLUE_LOGIC_LUTS_H */")
     assert c_identifier("addr[3].x-y") == "ADDR_3_X_Y"
     assert c_identifier("3rd") == "_3RD"
 
@@ -150,5 +150,6 @@ def test_c_header_wide_init_words():
 
     lut = Lut("w", tuple(f"i{b}" for b in range(7)), (1 << 128) - 2)
     net = LutNetwork(7, tuple(f"i{b}" for b in range(7)), ("y",), (lut,), ("w",))
-    hdr = c_header(net)
-    assert "static const uint64_t LUT_W_INIT[2] = {UINT64_C(0xFFFFFFFFFFFFFFFE), UINT64_C(0xFFFFFFFFFFFFFFFF)};" in hdr
+    hdr = c_header(net, "wide")
+    assert ("static const uint64_t WIDE_LUT_W_INIT[2] = {UINT64_C(0xFFFFFFFFFFFFFFFE), UINT64_C(0xFFFFFFFFFFFFFFFF)};"
+            in hdr)

@@ -92,7 +92,8 @@ def signal_index(arrays: Sequence[np.ndarray], size: int) -> np.ndarray:
     return idx
 
 
-def local_function(arrays: Sequence[np.ndarray], on: np.ndarray, off: np.ndarray) -> tuple[np.ndarray, np.ndarray] | None:
+def local_function(arrays: Sequence[np.ndarray], on: np.ndarray,
+                   off: np.ndarray) -> tuple[np.ndarray, np.ndarray] | None:
     """``(on_l, off_l)`` of the output seen through ``arrays``, or ``None`` when they do not determine it."""
     m = len(arrays)
     idx = signal_index(arrays, on.size)

@@ -1,4 +1,5 @@
-"""Text exports of a LUT network: a readable listing and a C-style header of INIT constants.
+"""Text exports of a LUT network: a readable listing and a C-style header of INIT constants (the Verilog netlist is
+in :mod:`plaforge.lut.netlist`).
 
 Both are deterministic functions of the network (same network, byte-identical text).
 """
@@ -10,7 +11,15 @@ import re
 from ..core.network import Lut, LutNetwork
 from .init import INIT_STYLES, drop_unused_inputs, format_init, pad_init
 
-__all__ = ["GLITCH_NOTE", "c_header", "c_identifier", "describe_lut", "format_listing", "net_init_constants", "padded_network"]
+__all__ = [
+    "GLITCH_NOTE",
+    "c_header",
+    "c_identifier",
+    "describe_lut",
+    "format_listing",
+    "net_init_constants",
+    "padded_network",
+]
 
 GLITCH_NOTE = (
     "Note: LUT outputs can glitch while inputs change (register them where that matters); close timing in the "
@@ -100,12 +109,14 @@ def c_identifier(name: str) -> str:
     return ident
 
 
-def net_init_constants(net: LutNetwork) -> list[tuple[str, Lut]]:
-    """Unique C names (``LUT_<NAME>``) for the LUTs, in network order; clashes get ``_2``, ``_3``, ..."""
+def net_init_constants(net: LutNetwork, design: str = "") -> list[tuple[str, Lut]]:
+    """Unique C names (``<DESIGN>_LUT_<NAME>``, or ``LUT_<NAME>`` without a design) for the LUTs, in network
+    order; clashes get ``_2``, ``_3``, ..."""
     used: set[str] = set()
     out = []
+    lead = f"{c_identifier(design)}_LUT_" if design else "LUT_"
     for lut in net.luts:
-        base = "LUT_" + c_identifier(lut.name)
+        base = lead + c_identifier(lut.name)
         ident, n = base, 2
         while ident in used:
             ident, n = f"{base}_{n}", n + 1
@@ -114,14 +125,17 @@ def net_init_constants(net: LutNetwork) -> list[tuple[str, Lut]]:
     return out
 
 
-def c_header(net: LutNetwork, guard: str = "PLAFORGE_LUTS_H") -> str:
-    """A C header with every LUT's INIT as a constant.
+def c_header(net: LutNetwork, design: str) -> str:
+    """A C header with every LUT's INIT as a constant, every name prefixed by the design's.
+
+    ``design`` (the spec's name, or ``--name``) gives the include guard ``<DESIGN>_LUTS_H`` and the constant names
+    ``<DESIGN>_LUT_<NAME>_INIT``, so the headers of two designs can be included together.
 
     INITs of up to 64 bits are ``#define <NAME>_INIT UINT64_C(0x...)``; wider ones (7 and 8 inputs) are
     ``static const uint64_t <NAME>_INIT[words]``, least significant word first. Each constant has
     ``<NAME>_FANINS`` (count) and a comment with the fan-ins in order; names are sanitized C identifiers.
     """
-    guard = c_identifier(guard)
+    guard = f"{c_identifier(design)}_LUTS_H"
     lines = [
         f"/* {net.k}-input LUT INIT constants: {net.count} LUTs, depth {net.depth}.",
         " * Bit p of an INIT is the LUT output when its fan-ins, read as a binary number with fan-in 0 as the",
@@ -132,7 +146,7 @@ def c_header(net: LutNetwork, guard: str = "PLAFORGE_LUTS_H") -> str:
         "#include <stdint.h>",
         "",
     ]
-    for ident, lut in net_init_constants(net):
+    for ident, lut in net_init_constants(net, design):
         m = len(lut.inputs)
         fans = ", ".join(lut.inputs) if lut.inputs else "none"
         lines.append(f"/* {lut.name}: fan-ins {fans} */".replace("*/", "* /")[:-3] + "*/")
