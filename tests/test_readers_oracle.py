@@ -189,7 +189,11 @@ def _match_value(draw, width: int, in_list: bool = False) -> str:
         hi = draw(st.integers(lo, top))
         return f'"{_num(draw, lo, width)}..{_num(draw, hi, width)}"'
     if kind == "pattern":
-        return f'"{_pattern(draw, width)}"'
+        text = _pattern(draw, width)
+        if len(text) > 3 and draw(st.booleans()):  # docs/formats.md writes "0b1xxx_xxxx_xxxx": '_' groups digits
+            k = draw(st.integers(3, len(text) - 1))
+            text = text[:k] + "_" + text[k:]
+        return f'"{text}"'
     if kind == "mask":
         mask = draw(st.integers(0, top))
         value = draw(st.integers(0, top)) & mask
