@@ -3,18 +3,20 @@
 ========  ===========================================  ============================================================
 suffix    artifact                                      how
 ========  ===========================================  ============================================================
-``.pla``  a cover in PLA format                         bit-parallel, every point, up to ``enum_limit`` inputs;
+``.pla``  a cover in PLA format                         every point, bit-parallel, up to ``enum_limit`` inputs;
                                                         a SAT proof beyond
 ``.json`` a LUT network in JSON (docs/conventions.md)   the same
-``.py``   a generated module (one wiring.Component)     Amaranth's simulator: every point up to
-                                                        ``exhaustive_limit`` inputs, corners plus a seeded sample
-                                                        beyond; and, when the file carries ``PLAFORGE_ARTIFACT``,
-                                                        a proof of that cover or network (bit-parallel or SAT)
+``.py``   a generated module (one wiring.Component)     a SAT proof on the gate netlist of the component's own logic
+                                                        (its RTLIL read back by Yosys), at any width; up to
+                                                        ``exhaustive_limit`` inputs also every point in Amaranth's
+                                                        simulator, a second witness
+``.v``    Verilog (one top module with the spec's       a SAT proof on its gate netlist (read by Yosys); with
+          ports)                                        ``simulate`` also iverilog, where it is installed
 ========  ===========================================  ============================================================
 
-A module passes an output only when both its simulation and the proof of the data it carries pass. Above the
-exhaustive limit the simulation covers the vectors it drove and the proof covers the embedded cover or network;
-the generated file builds its logic from that same cover or network, and the simulated vectors tie the two together.
+Every verdict is a proof; nothing the artifact embeds about itself (a generated module's ``PLAFORGE_ARTIFACT``
+lines) is trusted or needed. Simulation only adds witnesses: every point up to ``exhaustive_limit`` inputs, and with
+``simulate`` the sampled vectors of :func:`plaforge.verify.vectors.sample_points` beyond, labelled as a sample.
 """
 
 from __future__ import annotations
@@ -26,13 +28,14 @@ from pathlib import Path
 from .core.cube import Cover
 from .core.errors import ArtifactError
 from .core.network import LutNetwork
-from .core.serial import artifact_from_lines
 from .core.table import DEFAULT_ENUM_LIMIT, Table
 from .formats.pla import read_cover
 from .verify.component import instantiate, load_module
 from .verify.equivalence import OutputVerdict, Verdict, check_cover, check_network
-from .verify.sat import sat_check_cover, sat_check_network
-from .verify.simulate import DEFAULT_SAMPLES, check_component
+from .verify.iverilog import have_iverilog, iverilog_points
+from .verify.netlist import netlist_of_component, netlist_of_verilog
+from .verify.sat import sat_check_cover, sat_check_netlist, sat_check_network
+from .verify.simulate import DEFAULT_SAMPLES, check_component, check_simulated, component_ports
 
 __all__ = ["check_artifact", "prove"]
 
@@ -66,16 +69,51 @@ def _read_network(p: Path) -> LutNetwork:
         ) from None
 
 
-def _combine(sim: Verdict, proof: Verdict | None, artifact: str, what: str) -> Verdict:
-    """Per output, the simulation's verdict and the proof's of the data the module carries (``what``) together."""
-    if proof is None:
-        return Verdict(artifact, sim.outputs)
+def _combine(proof: Verdict, witness: Verdict | None) -> Verdict:
+    """Per output, the proof's verdict and a simulation's (``witness``) together: both must pass."""
+    if witness is None:
+        return proof
     out = []
-    for s, p in zip(sim.outputs, proof.outputs):
-        failure = s.failure if s.failure is not None else p.failure
-        method = f"{s.method}; {what}: {p.method}"
-        out.append(OutputVerdict(s.name, s.passed and p.passed, s.vectors, method, failure))
-    return Verdict(artifact, tuple(out))
+    for p, w in zip(proof.outputs, witness.outputs):
+        failure = p.failure if p.failure is not None else w.failure
+        out.append(OutputVerdict(p.name, p.passed and w.passed, w.vectors, f"{p.method}; witness: {w.method}", failure))
+    return Verdict(proof.artifact, tuple(out))
+
+
+def _read_text(p: Path) -> str:
+    try:
+        return p.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ArtifactError(f"{p}: no such file") from None
+    except (OSError, UnicodeDecodeError) as exc:
+        raise ArtifactError(f"{p}: cannot read: {exc}") from None
+
+
+def _check_module(table: Table, p: Path, exhaustive_limit: int, samples: int, seed: int, simulate: bool) -> Verdict:
+    component = instantiate(load_module(p), str(p))
+    component_ports(table, component, str(p))  # a component for another spec is named as such, before elaborating
+    proof = sat_check_netlist(table, netlist_of_component(component, str(p)), p.name)
+    if table.n_inputs > exhaustive_limit and not simulate:
+        return proof
+    witness = check_component(table, component, exhaustive_limit=exhaustive_limit,
+                              samples=samples, seed=seed, artifact=p.name)
+    return _combine(proof, witness)
+
+
+def _check_verilog(table: Table, p: Path, exhaustive_limit: int, samples: int, seed: int, simulate: bool) -> Verdict:
+    text = _read_text(p)
+    net = netlist_of_verilog(text, str(p))
+    proof = sat_check_netlist(table, net, p.name)
+    if not simulate:
+        return proof
+    if not have_iverilog():
+        out = tuple(OutputVerdict(o.name, o.passed, o.vectors, f"{o.method}; iverilog not installed, not simulated",
+                                  o.failure) for o in proof.outputs)
+        return Verdict(proof.artifact, out)
+    witness = check_simulated(table, lambda pts: iverilog_points(table, text, net.top, pts, str(p)),
+                              "iverilog simulation", exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,
+                              artifact=p.name)
+    return _combine(proof, witness)
 
 
 def check_artifact(
@@ -86,6 +124,7 @@ def check_artifact(
     enum_limit: int = DEFAULT_ENUM_LIMIT,
     samples: int = DEFAULT_SAMPLES,
     seed: int = 1,
+    simulate: bool = False,
 ) -> Verdict:
     """Check the artifact file at ``path`` against ``table`` (see the module docs for the methods).
 
@@ -94,13 +133,15 @@ def check_artifact(
     table : Table
         The spec, the only thing trusted.
     path : path-like
-        A ``.pla`` cover, a LUT ``.json`` or a generated module ``.py``.
+        A ``.pla`` cover, a LUT ``.json``, a generated module ``.py`` or Verilog ``.v``.
     exhaustive_limit : int
-        Simulate every point of a module up to this many inputs.
+        Simulate every point of a module up to this many inputs (and of Verilog, with ``simulate``).
     enum_limit : int
         Check covers and networks bit-parallel up to this many inputs (SAT beyond).
     samples, seed : int
         Random vectors (after the corner cases) when simulating beyond ``exhaustive_limit``.
+    simulate : bool
+        Also simulate beyond ``exhaustive_limit`` (a module) and simulate Verilog with iverilog (where installed).
 
     Returns
     -------
@@ -110,8 +151,9 @@ def check_artifact(
     Raises
     ------
     ArtifactError
-        Unknown suffix; a file that is unreadable or malformed, or a module that fails to import, build or elaborate;
-        an artifact whose names or ports are not the spec's (exit status 2).
+        Unknown suffix; a file that is unreadable or malformed, a module that fails to import, build or elaborate,
+        Verilog that does not parse or is not combinational; an artifact whose names or ports are not the spec's
+        (exit status 2).
     """
     p = Path(path)
     suffix = p.suffix.lower()
@@ -121,15 +163,9 @@ def check_artifact(
     if suffix == ".json":
         return prove(table, _read_network(p), enum_limit=enum_limit, name=name)
     if suffix == ".py":
-        mod = load_module(p)
-        component = instantiate(mod, str(p))
-        sim = check_component(table, component, exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,
-                              artifact=name)
-        data = getattr(mod, "PLAFORGE_ARTIFACT", None)
-        if data is None:
-            return _combine(sim, None, name, "")
-        embedded = artifact_from_lines(data)
-        what = "embedded cover" if isinstance(embedded, Cover) else "embedded LUT network"
-        proof = prove(table, embedded, enum_limit=enum_limit, name=f"{p}: the {what}")
-        return _combine(sim, proof, name, what)
-    raise ArtifactError(f"{p}: unknown artifact type {p.suffix!r}; expected a .pla cover, a LUT .json or a module .py")
+        return _check_module(table, p, exhaustive_limit, samples, seed, simulate)
+    if suffix == ".v":
+        return _check_verilog(table, p, exhaustive_limit, samples, seed, simulate)
+    raise ArtifactError(
+        f"{p}: unknown artifact type {p.suffix!r}; expected a .pla cover, a LUT .json, a module .py or Verilog .v"
+    )

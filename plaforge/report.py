@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from .core.table import Table
+from .verify.report import format_vector
 
 __all__ = ["CAUTION", "table_summary"]
 
@@ -56,6 +57,20 @@ def build_report(result: object) -> str:
         f"  cover: {cov['rows']} product terms, {cov['literals']} literals ({cov['method']}, {status}, "
         f"{cov['seconds']:.2f} s)"
     )
+    hazards = [h for h in r.hazards if h.transitions]  # type: ignore[attr-defined]
+    free = dict(r.cover.extra).get("hazard_free")  # type: ignore[attr-defined]
+    if free is not None:
+        scope = "care points" if free == "care" else "don't-cares made ON"
+        lines.append(f"  hazard-free cover ({scope})")
+    if hazards:
+        lines.append("  static hazards for single-input changes (plaforge hazards SPEC COVER lists them):")
+        for h in hazards:
+            lines.append(f"    {h.name}: {h.kind}, {h.pairs} adjacent pairs in {len(h.transitions)} transition cubes")
+    else:
+        lines.append("  no static hazard for single-input changes between care points")
+    for style, g in r.gates.items():  # type: ignore[attr-defined]
+        lines.append(f"  {'NAND-NAND' if style == 'nand' else 'NOR-NOR'} gates, at most {g.max_fanin} inputs each:")
+        lines += [f"    {ln}" for ln in g.summary_lines()]
     net = r.network  # type: ignore[attr-defined]
     if net is not None:
         lb = net.lower_bounds
@@ -78,8 +93,8 @@ def build_report(result: object) -> str:
             lines.append(f"    {key:<11} all {len(outs)} outputs pass ({', '.join(methods)})")
         else:
             for o in bad:
-                p, exp, got = o.failure if o.failure else (None, None, None)
-                lines.append(f"    {key:<11} {o.name}: FAIL at point {p}: expected {exp}, got {got}")
+                p, exp, got = o.failure if o.failure else (0, None, None)
+                lines.append(f"    {key:<11} {o.name}: FAIL at {format_vector(t, p)}: expected {exp}, got {got}")
     for note in r.notes:  # type: ignore[attr-defined]
         lines.append(f"  note: {note}")
     lines.append(CAUTION)

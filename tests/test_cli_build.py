@@ -18,7 +18,7 @@ def test_demo_writes_and_checks_every_artifact(tmp_path):
                  "memory_map.v", "test_memory_map.py"):
         assert (out / name).is_file(), name
     assert "FAIL" not in res.output
-    assert res.output.count("all 7 outputs pass") == 4
+    assert res.output.count("all 7 outputs pass") == 5  # cover, network, both modules and the Verilog
     assert "Caution" in res.output
 
 
@@ -31,7 +31,7 @@ def test_build_json_and_determinism(tmp_path):
     obj = json.loads(r1.output)  # --json: exactly one JSON object on stdout
     assert obj["passed"] is True and obj["inputs"] == 6 and obj["outputs"] == 7
     assert obj["luts"]["k"] == 4
-    assert set(obj["checks"]) == {"cover", "luts", "module_sop", "module_lut"}
+    assert set(obj["checks"]) == {"cover", "luts", "module_sop", "module_lut", "verilog"}
     for f in a.iterdir():  # docs/conventions.md: the same input gives byte-identical artifacts
         assert f.read_bytes() == (b / f.name).read_bytes(), f.name
 

@@ -182,14 +182,14 @@ def test_check_artifact_dispatches_by_suffix(tmp_path: Path) -> None:
     p, expected, actual = fail.failure
     j = t.output_names.index(fail.name)
     assert expected == ((p & 3) + (p >> 2 & 3)) >> j & 1  # reference: the sum itself
-    assert "embedded cover" in fail.method
+    assert "SAT on the gate netlist" in fail.method and "refuted" in format_verdict(v, t)
     report = format_verdict(v, t)
-    assert "FAIL" in report and "first failure at a=0b" in report and f"expected {expected}, got {actual}" in report
+    assert "FAIL" in report and "first failure at a[2]=0x" in report and f"expected {expected}, got {actual}" in report
 
 
 def test_report_names_vector_by_ports() -> None:
     t = _add2()
-    assert format_vector(t, 0b1101) == "a=0b01 b=0b11 (point 13)"
+    assert format_vector(t, 0b1101) == "a[2]=0x1 b[2]=0x3 (point 13)"
 
 
 def test_bad_artifacts_are_user_errors(tmp_path: Path) -> None:
@@ -218,26 +218,33 @@ def test_bad_artifacts_are_user_errors(tmp_path: Path) -> None:
         check_artifact(t, tmp_path / "ports.py")
 
 
-def test_wide_module_uses_samples_and_a_proof(tmp_path: Path) -> None:
-    """Above the exhaustive limit: corners plus samples in the simulator, and a SAT proof of the embedded cover."""
+def test_wide_module_is_proven_from_its_own_logic_not_its_embedded_data(tmp_path: Path) -> None:
+    """Above the exhaustive limit the verdict is the SAT proof on the module's netlist; the PLAFORGE_ARTIFACT lines
+    are not trusted, so tampering with them changes nothing, while tampering with the logic is caught."""
     n = 20
     names = tuple(f"addr[{i}]" for i in range(n))
     # address decoder (invented demo map): sel0 = top nibble 0xA, sel1 = addr[19:16] == 0x3 and addr[0] == 0
     on = ((Cube(0xF0000, 0xA0000, 1),), (Cube(0xF0001, 0x30000, 2),))
     t = Table(names, ("sel0", "sel1"), on, ((), ()), (None, None), source="dec.toml")
     cov = Cover(names, ("sel0", "sel1"), (Cube(0xF0000, 0xA0000, 1), Cube(0xF0001, 0x30000, 2)))
-    (tmp_path / "dec.py").write_text(module_source(t, cov, source_name="dec.toml"))
+    text = module_source(t, cov, source_name="dec.toml")
+    (tmp_path / "dec.py").write_text(text)
     v = check_artifact(t, tmp_path / "dec.py", samples=200, enum_limit=16)
-    assert v.passed
-    assert all("random vectors" in o.method and "SAT proof" in o.method for o in v.outputs)
-    # the module is right but its embedded data is tampered with: the proof catches it
-    text = (tmp_path / "dec.py").read_text().replace('"----------------0101 10"', '"----------------0111 10"')
-    (tmp_path / "tampered.py").write_text(text)
-    assert text != (tmp_path / "dec.py").read_text()
-    v = check_artifact(t, tmp_path / "tampered.py", samples=200, enum_limit=16)
+    assert v.passed and all(o.method.startswith("proven: SAT on the gate netlist") for o in v.outputs)
+    v = check_artifact(t, tmp_path / "dec.py", samples=200, simulate=True)
+    assert v.passed and all("sampled: Amaranth simulation" in o.method for o in v.outputs)
+    data = text.replace('"----------------0101 10"', '"----------------0111 10"')
+    assert data != text
+    (tmp_path / "data.py").write_text(data)
+    assert check_artifact(t, tmp_path / "data.py").passed
+    # the logic tampered with: sel0 also decodes top nibble 0xE
+    logic = text.replace("self.addr[17] & ~self.addr[18] & self.addr[19]", "self.addr[17] & self.addr[19]")
+    assert logic != text
+    (tmp_path / "tampered.py").write_text(logic)
+    v = check_artifact(t, tmp_path / "tampered.py")
     assert [o.passed for o in v.outputs] == [False, True]
     p = v.outputs[0].failure[0]
-    assert (p >> 16 == 0xA) != (p >> 16 == 0xE)
+    assert p >> 16 == 0xE  # the one extra nibble the edited AND admits (reference: the edit above)
 
 
 # -- commands ------------------------------------------------------------------------------------------------------
@@ -268,11 +275,3 @@ def test_module_and_check_commands(tmp_path: Path) -> None:
     assert res.exit_code == 2 and "give the module file with -o" in res.output
     res = runner.invoke(cli, ["module", str(spec)])
     assert res.exit_code == 0 and "class Add2(wiring.Component):" in res.output
-
-
-def test_malformed_embedded_data_is_a_user_error(tmp_path: Path) -> None:
-    t = _add2()
-    text = module_source(t, _cover(t), source_name="add2.pla").replace('{"kind": "cover"', '{"kind": "coverx"')
-    (tmp_path / "m.py").write_text(text)
-    with pytest.raises(PlaforgeError, match="PLAFORGE_ARTIFACT data is malformed"):
-        check_artifact(t, tmp_path / "m.py")

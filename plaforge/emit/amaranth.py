@@ -12,7 +12,10 @@ length 88, and clean under ``ruff check``) from the artifact's :class:`plaforge.
 :func:`build_component` returns the component in-process by running that same text, so the two cannot differ.
 
 The file also carries what it realizes as data (``PLAFORGE_ARTIFACT``, :func:`plaforge.core.serial.artifact_lines`)
-so a checker can prove the cover or network equivalent to the spec beyond the vectors it simulates.
+for readers and tools; ``plaforge check`` does not trust it: it proves the component's own logic.
+
+``elaborate`` calls helper methods of at most :data:`STATEMENTS_PER_METHOD` statements each, which keeps
+elaboration fast (see there); the signals they share are lists (``t[k]`` named ``tk``, ``n[k]`` named as the LUT).
 """
 
 from __future__ import annotations
@@ -29,7 +32,7 @@ from ..verify.component import instantiate, load_source
 from .layout import LINE_LENGTH, Call, Chain, Node, layout, py_string, seq_lines
 from .plan import LogicPlan, Ref, plan_for
 
-__all__ = ["OR_CHAIN_LIMIT", "build_component", "module_source"]
+__all__ = ["OR_CHAIN_LIMIT", "STATEMENTS_PER_METHOD", "build_component", "module_source"]
 
 
 def _bit_ref(port: Port, b: int) -> str:
@@ -77,60 +80,93 @@ def _or(terms: Sequence[str]) -> Node:
     return terms[0] if len(terms) == 1 else Chain("|", tuple(terms))
 
 
-def _elaborate_body(plan: LogicPlan, table: Table) -> list[str]:
-    lines = ["        m = Module()"]
+STATEMENTS_PER_METHOD = 200
+"""Statements per helper method of ``elaborate``. Amaranth records the source line of every statement it is given,
+and on Python 3.11 finding a line costs time in proportion to the size of the function it is in; one method for a
+cover of a thousand terms took ten times longer to elaborate than the same statements in methods of this size."""
+
+
+def _sop_groups(plan: LogicPlan, table: Table) -> tuple[list[list[str]], list[list[str]]]:
+    """Statements (as lines, each a group of one statement) of the product terms and of the outputs."""
+    terms: list[list[str]] = []
+    for k, (care, value) in enumerate(plan.nodes):
+        feeds = [table.output_names[j] for j, (ts, _) in enumerate(plan.outputs) if k in ts]
+        lits = _literals(plan, care, value)
+        expr: Node = lits[0] if len(lits) == 1 else Chain("&", tuple(lits))
+        terms.append([f"        # t{k} feeds {', '.join(feeds)}"[:LINE_LENGTH].rstrip(), *_comb(f"t[{k}]", expr, "terms")])
+    outs: list[list[str]] = []
+    for j, (ts, inverted) in enumerate(plan.outputs):
+        target = _out_ref(plan, j)
+        names = [f"t[{k}]" for k in ts]
+        if not names:  # a constant output (see LogicPlan)
+            outs.append(_comb(target, "1" if inverted else "0"))
+        elif inverted:
+            outs.append([f"        inv{j} = Signal()  # {table.output_names[j]} is realized in complement"[
+                :LINE_LENGTH].rstrip(), *_comb(f"inv{j}", _or(names)), *_comb(target, f"~inv{j}")])
+        else:
+            outs.append(_comb(target, _or(names)))
+    return terms, outs
+
+
+def _lut_groups(plan: LogicPlan) -> tuple[list[list[str]], list[list[str]]]:
+    """Statements of the LUTs and of the outputs (LUT ``k`` is ``n[k]``)."""
+
+    def ref_text(r: Ref) -> str:
+        kind, v = r
+        if kind == "in":
+            return _in_ref(plan, v)
+        if kind == "node":
+            return f"n[{v}]"
+        return f"Const({v}, 1)"
+
+    nodes = [_comb(f"n[{k}]", Call("lut", (init_hex(init, len(fanins)), *(ref_text(r) for r in fanins))), "m")
+             for k, (_, fanins, init) in enumerate(plan.nodes)]
+    outs = [_comb(_out_ref(plan, j), str(r[1]) if r[0] == "const" else ref_text(r)) for j, r in enumerate(plan.outputs)]
+    return nodes, outs
+
+
+def _methods(name: str, groups: list[list[str]], params: str, doc: str) -> tuple[list[str], list[str]]:
+    """Helper methods holding ``groups`` (at most :data:`STATEMENTS_PER_METHOD` each), and the lines calling them."""
+    chunks = [groups[k : k + STATEMENTS_PER_METHOD] for k in range(0, len(groups), STATEMENTS_PER_METHOD)]
+    calls: list[str] = []
+    defs: list[str] = []
+    for c, chunk in enumerate(chunks):
+        method = name if len(chunks) == 1 else f"{name}_{c + 1}"
+        calls.append(f"        self.{method}({params})")
+        defs += ["", f"    def {method}(self, {params}):", f'        """{doc}"""'[:LINE_LENGTH]]
+        defs += [line for group in chunk for line in group]
+    return calls, defs
+
+
+def _class_body(plan: LogicPlan, table: Table) -> list[str]:
+    """``elaborate`` and its helper methods."""
+    lines = ["    def elaborate(self, platform):", "        m = Module()"]
     if plan.style == "sop":
-        if plan.nodes:
-            lines.append("")
-            lines.append("        # Product terms, each shared by every output listed beside it. They sit in a")
-            lines.append("        # submodule of their own so that a simulator settles them in one pass before")
-            lines.append("        # the outputs (in one module it would evaluate everything twice per change).")
-            lines.append("        m.submodules.terms = terms = Module()")
-        for t, (care, value) in enumerate(plan.nodes):
-            feeds = [table.output_names[j] for j, (ts, _) in enumerate(plan.outputs) if t in ts]
-            lines.append(f"        t{t} = Signal()  # feeds {', '.join(feeds)}"[:LINE_LENGTH].rstrip())
-            lits = _literals(plan, care, value)
-            expr: Node = "1" if not lits else lits[0] if len(lits) == 1 else Chain("&", tuple(lits))
-            lines += _comb(f"t{t}", expr, "terms")
-        lines.append("")
-        lines.append("        # Outputs: the OR of their product terms (Cat(...).any() when there are many).")
-        for j, (ts, inverted) in enumerate(plan.outputs):
-            target = _out_ref(plan, j)
-            names = [f"t{t}" for t in ts]
-            if inverted:
-                if not names:
-                    lines += _comb(target, "1")
-                    continue
-                lines.append(f"        inv{j} = Signal()  # {table.output_names[j]} is realized in complement"[
-                    :LINE_LENGTH].rstrip())
-                lines += _comb(f"inv{j}", _or(names))
-                lines += _comb(target, f"~inv{j}")
-            else:
-                lines += _comb(target, _or(names) if names else "0")
+        terms, outs = _sop_groups(plan, table)
+        calls, defs = [], []
+        if terms:
+            lines += [
+                "        # Product terms, t[k] named tk, each shared by the outputs listed with it. They sit",
+                "        # in a submodule of their own so that a simulator settles them in one pass before",
+                "        # the outputs (in one module it would evaluate everything twice per change).",
+                "        m.submodules.terms = terms = Module()",
+                f'        t = [Signal(name=f"t{{k}}") for k in range({len(terms)})]',
+            ]
+            calls, defs = _methods("_product_terms", terms, "terms, t", "Product terms: each the AND of its literals.")
+        o_calls, o_defs = _methods("_outputs", outs, "m, t" if terms else "m",
+                                   "Outputs: the OR of their product terms (Cat(...).any() when many).")
     else:
-        if plan.nodes:
-            lines.append("")
-            lines.append("        # LUTs: INIT indexed by the fan-ins, the first fan-in as the least significant bit.")
-
-        def ref_text(r: Ref) -> str:
-            kind, v = r
-            if kind == "in":
-                return _in_ref(plan, v)
-            if kind == "node":
-                return plan.nodes[v][0]
-            return f"Const({v}, 1)"
-
-        for local, fanins, init in plan.nodes:
-            lines.append(f"        {local} = Signal()")
-            args = (init_hex(init, len(fanins)), *(ref_text(r) for r in fanins))
-            lines += _comb(local, Call("lut", args))
-        lines.append("")
-        lines.append("        # Outputs.")
-        for j, r in enumerate(plan.outputs):
-            kind, v = r
-            lines += _comb(_out_ref(plan, j), str(v) if kind == "const" else ref_text(r))
-    lines.append("        return m")
-    return lines
+        nodes, outs = _lut_groups(plan)
+        calls, defs = [], []
+        if nodes:
+            names = [py_string(local) for local, _, _ in plan.nodes]
+            lines.append("        # LUTs: n[k] is LUT k (its name below); INIT indexed by the fan-ins, the first")
+            lines.append("        # fan-in as the least significant bit.")
+            lines += seq_lines("names = ", names, 8)
+            lines.append("        n = [Signal(name=name) for name in names]")
+            calls, defs = _methods("_luts", nodes, "m, n", "LUTs, each a constant INIT indexed by its fan-ins.")
+        o_calls, o_defs = _methods("_outputs", outs, "m, n" if nodes else "m", "Outputs.")
+    return lines + calls + o_calls + ["        return m"] + defs + o_defs
 
 
 def _docstring(plan: LogicPlan, table: Table, class_name: str, source_name: str, source_digest: str) -> list[str]:
@@ -142,7 +178,7 @@ def _docstring(plan: LogicPlan, table: Table, class_name: str, source_name: str,
         f"SHA-256: {source_digest or 'not recorded'}",
         f"Realizes: {plan.summary}.",
         "Check it against the spec, output by output, with: plaforge check SPEC THIS_FILE.py",
-        "(it simulates this component and proves the PLAFORGE_ARTIFACT data below).",
+        "(it proves the logic of this component on every point, from its gate netlist).",
         "",
         "Ports (spec name -> port; bit i of a bus port is spec bit name[i]):",
     ]
@@ -206,7 +242,7 @@ def module_source(
     lines = _docstring(plan, table, name, source_name, source_digest)
     lines += ["", f"from amaranth.hdl import {', '.join(sorted(names))}", "from amaranth.lib import wiring",
               "from amaranth.lib.wiring import In, Out", "", f'__all__ = ["{name}"]', ""]
-    lines.append("# What this module realizes, as data, so a checker can prove it against the spec: a JSON")
+    lines.append("# What this module realizes, as data for readers and tools (a check proves the logic itself): JSON")
     lines.append("# header, then one line per " + ("cover row (inputs, outputs as in PLA)." if plan.style == "sop"
                                                    else "LUT (INIT as hex, first fan-in least significant)."))
     lines += seq_lines("PLAFORGE_ARTIFACT = ", [py_string(x) for x in artifact_lines(artifact)])
@@ -222,8 +258,8 @@ def module_source(
               f'    """Realizes {_doc_src(source_name or table.source)} (see the module docstring)."""', ""]
     for p in plan.ports:
         lines.append(f"    {p.name}: {'In' if p.direction == 'in' else 'Out'}({p.width})")
-    lines += ["", "    def elaborate(self, platform):"]
-    lines += _elaborate_body(plan, table)
+    lines.append("")
+    lines += _class_body(plan, table)
     return "\n".join(lines) + "\n"
 
 

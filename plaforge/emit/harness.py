@@ -8,9 +8,10 @@ Data it carries:
 
 * up to ``limit`` inputs (default 16): the whole truth table, per output its ON bitmap then its don't-care bitmap
   (``2**n`` bits each, bit ``p`` is point ``p``), zlib-compressed and base64-encoded; every point is driven;
-* above: the ON and don't-care cubes as rows (input part, output index, ``1`` or ``-``), and the vectors are
-  those of :func:`plaforge.verify.vectors.sample_points` (corner cases, then a seeded random sample), whose source
-  the file carries: the same vectors ``plaforge check`` drives.
+* above: the ON, don't-care and OFF cubes as rows (input part, output index, ``1``, ``-`` or ``0``), and the
+  vectors are those of :func:`plaforge.verify.vectors.sample_points` (corner cases, then a seeded random sample
+  reaching the ON and OFF regions and the edges of the ON and don't-care cubes), whose source the file carries: the
+  same vectors ``plaforge check --simulate`` drives. The file's header says it samples.
 
 The file finds the module's component with the source of :func:`plaforge.verify.component.component_class`. Don't-care
 points are never judged.
@@ -162,8 +163,12 @@ _EXPECT_CUBES = '''def _cubes():
 
 def _expected():
     cubes = _cubes()
-    inside = [(care, value) for care, value, _, kind in cubes if kind == "1"]
-    points, _ = sample_points(N_INPUTS, inside, SAMPLES, SEED)
+    kinds = {"on": "1", "off": "0", "dc": "-"}
+    regions = {
+        name: [(care, value) for care, value, _, kind in cubes if kind == mark]
+        for name, mark in kinds.items()
+    }
+    points, _ = sample_points(N_INPUTS, regions, SAMPLES, SEED)
     on, dc = [], []
     for p in points:
         o = d = 0
@@ -171,7 +176,7 @@ def _expected():
             if p & care == value:
                 if kind == "1":
                     o |= 1 << j
-                else:
+                elif kind == "-":
                     d |= 1 << j
         on.append(o & ~d)
         dc.append(d)
@@ -246,16 +251,23 @@ def harness_source(
         for j in range(m):
             rows += [f"{c.text(n)} {j} 1" for c in table.on_cubes(j)]
             rows += [f"{c.text(n)} {j} -" for c in table.dc_cubes(j)]
+            rows += [f"{c.text(n)} {j} 0" for c in table.off_cubes(j)]
         data = (
             f"SAMPLES = {samples}\nSEED = {seed}\n"
-            "# ON and don't-care cubes: input part (leftmost column is input 0), output index,\n"
-            "# 1 for ON or - for don't-care. Every other point is OFF.\n"
+            "# ON, don't-care and OFF cubes: input part (leftmost column is input 0), output\n"
+            "# index, 1 for ON, - for don't-care, 0 for OFF. A point in no ON or don't-care cube\n"
+            "# is OFF; the OFF cubes only steer the sample into the OFF region.\n"
             + "\n".join(seq_lines("ROWS = ", [py_string(r) for r in rows]))
             + "\n"
         )
         expect = _EXPECT_CUBES.replace("@@GENERATOR@@", _embedded(sample_points))
         imports = "import importlib.util\nimport types"
-        vectors = f"corner cases and {samples} random points (seed {seed})"
+        vectors = (
+            f"a SAMPLE, not every point: corner cases and {samples} random points\n"
+            f"(seed {seed}) drawn uniformly, inside ON and OFF cubes, and one input flip\n"
+            "outside ON and don't-care cubes. Passing shows no error on those vectors only;\n"
+            "plaforge check SPEC MODULE.py proves the module on every point"
+        )
     src = (source_name or table.source or "its spec").replace("\\", "/").replace('"', "'")
     out = _TEMPLATE
     for key, value in (

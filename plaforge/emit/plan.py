@@ -4,6 +4,10 @@ A :class:`LogicPlan` holds the ports (:func:`plaforge.core.names.ports_of`), the
 output. Style ``sop`` (from a :class:`plaforge.core.cube.Cover`): each distinct product term once, each output the OR
 of its terms, complemented where the cover realizes the output inverted. Style ``lut`` (from a
 :class:`plaforge.core.network.LutNetwork`): each LUT a node with its fan-ins and INIT.
+
+A constant is a constant: an output whose terms cover every point (``a | ~a``, or the term with no literals) is
+planned as the constant 1, a LUT whose INIT is all ones or all zeros as that constant, so no generated file builds a
+constant from gates that could glitch.
 """
 
 from __future__ import annotations
@@ -35,7 +39,8 @@ class LogicPlan:
     nodes : tuple
         ``sop``: product terms as ``(care, value)`` input masks. ``lut``: ``(local_name, fanin_refs, init)``.
     outputs : tuple
-        Per table output. ``sop``: ``(term_indices, inverted)``. ``lut``: the driving :data:`Ref`.
+        Per table output. ``sop``: ``(term_indices, inverted)``; no terms means the constant ``inverted`` (0 or 1).
+        ``lut``: the driving :data:`Ref`.
     summary : str
         One line of figures for docstrings.
     """
@@ -47,11 +52,29 @@ class LogicPlan:
     summary: str
 
 
+def _tautology(cubes: list[tuple[int, int]]) -> bool:
+    """Whether the cubes (``(care, value)``) cover every point: split on a binate input until each part is unate,
+    where only the cube with no literals covers everything."""
+    if any(care == 0 for care, _ in cubes):
+        return True
+    pos = neg = 0
+    for care, value in cubes:
+        pos |= care & value
+        neg |= care & ~value
+    binate = pos & neg
+    if not binate:
+        return False
+    bit = binate & -binate
+    return all(_tautology([(care & ~bit, value & ~bit) for care, value in cubes if not care & bit or value & bit == v])
+               for v in (0, bit))
+
+
 def _sop_plan(table: Table, cover: Cover) -> LogicPlan:
+    constant = [_tautology([(c.care, c.value) for c in cover.cubes_for(j)]) for j in range(cover.n_outputs)]
     index: dict[tuple[int, int], int] = {}
     feeds: list[int] = []
     for c in cover.cubes:
-        if not c.outputs:
+        if not c.outputs & ~sum(1 << j for j, k in enumerate(constant) if k):
             continue
         key = (c.care, c.value)
         if key not in index:
@@ -60,7 +83,8 @@ def _sop_plan(table: Table, cover: Cover) -> LogicPlan:
         feeds[index[key]] |= c.outputs
     terms = tuple(index)
     outs = tuple(
-        (tuple(t for t in range(len(terms)) if feeds[t] >> j & 1), cover.is_inverted(j))
+        ((), not cover.is_inverted(j)) if constant[j]
+        else (tuple(t for t in range(len(terms)) if feeds[t] >> j & 1), cover.is_inverted(j))
         for j in range(cover.n_outputs)
     )
     literals = sum(care.bit_count() for care, _ in terms)
@@ -81,9 +105,13 @@ def _lut_plan(table: Table, net: LutNetwork) -> LogicPlan:
     refs |= {"0": ("const", 0), "1": ("const", 1)}
     locals_ = unique_names((identifier(lut.name, GENERATED_FILE_NAMES) for lut in net.luts), GENERATED_FILE_NAMES)
     nodes = []
-    for k, (lut, local) in enumerate(zip(net.luts, locals_)):
+    for lut, local in zip(net.luts, locals_):
+        full = (1 << (1 << len(lut.inputs))) - 1
+        if lut.init & full in (0, full):  # a constant LUT is its constant
+            refs[lut.name] = ("const", int(lut.init & full == full))
+            continue
         nodes.append((local, tuple(refs[x] for x in lut.inputs), lut.init))
-        refs[lut.name] = ("node", k)
+        refs[lut.name] = ("node", len(nodes) - 1)
     summary = (
         f"{net.k}-input LUT network: {net.count} LUTs, depth {net.depth}, {len(net.output_names)} outputs"
         f"{' (' + net.method + ')' if net.method else ''}"

@@ -20,7 +20,11 @@ from ..core.table import DEFAULT_ENUM_LIMIT, Table, _literal_bits, _valid_mask, 
 if TYPE_CHECKING:  # annotations only: importing plaforge.lut here closes an import cycle through lut.verify_sat
     from ..core.network import LutNetwork
 
-__all__ = ["OutputVerdict", "Verdict", "check_cover", "check_network", "cover_bits", "first_point", "network_bits"]
+__all__ = ["EXHAUSTIVE_METHOD", "OutputVerdict", "Verdict", "check_cover", "check_network", "cover_bits", "first_point",
+           "network_bits"]
+
+
+EXHAUSTIVE_METHOD = "proven: exhaustive, every point (bit-parallel)"
 
 
 @dataclass(frozen=True)
@@ -113,7 +117,7 @@ def check_cover(table: Table, cover: Cover, limit: int = DEFAULT_ENUM_LIMIT, art
     check_names(table, cover.input_names, cover.output_names, artifact)
     table.check_enumerable(limit, "an exhaustive check")
     n = table.n_inputs
-    res = tuple(_judge(table, j, cover_bits(cover, j, n), "exhaustive") for j in range(table.n_outputs))
+    res = tuple(_judge(table, j, cover_bits(cover, j, n), EXHAUSTIVE_METHOD) for j in range(table.n_outputs))
     return Verdict(artifact, res)
 
 
@@ -129,5 +133,5 @@ def check_network(table: Table, net: LutNetwork, limit: int = DEFAULT_ENUM_LIMIT
     check_names(table, net.input_names, net.output_names, artifact)
     table.check_enumerable(limit, "an exhaustive check")
     got = network_bits(net, table.n_inputs)
-    res = tuple(_judge(table, j, got[j], "exhaustive") for j in range(table.n_outputs))
+    res = tuple(_judge(table, j, got[j], EXHAUSTIVE_METHOD) for j in range(table.n_outputs))
     return Verdict(artifact, res)

@@ -1,8 +1,11 @@
 """Plain-text reports of verdicts (what ``plaforge check`` prints).
 
-A failing vector is shown port by port as the spec names them: a bus as ``name=0b0101`` (most significant bit
-first, bit ``i`` being spec bit ``name[i]``), a single bit as ``name=1``, followed by the point number (bit ``i`` of
+A failing vector is shown port by port as the spec names them: a bus as ``name[W]=0x...`` (its width ``W``, the value
+in hex, bit ``i`` being spec bit ``name[i]``), a single bit as ``name=1``, followed by the point number (bit ``i`` of
 the point is input ``i`` of the table).
+
+Each output's line says how it was judged: ``proven`` (every point, by enumeration or by a SAT proof), ``sampled``
+(the vectors driven, and no more), or ``refuted`` when a proof found a counterexample.
 """
 
 from __future__ import annotations
@@ -19,7 +22,7 @@ def format_vector(table: Table, point: int) -> str:
     >>> from plaforge.table import Table
     >>> t = Table.from_function(["a[0]", "a[1]", "en"], ["y"], lambda p: [p == 7])
     >>> format_vector(t, 0b110)
-    'a=0b10 en=1 (point 6)'
+    'a[2]=0x2 en=1 (point 6)'
     """
     parts = []
     for bus in table.input_buses:
@@ -27,7 +30,8 @@ def format_vector(table: Table, point: int) -> str:
         if bus.scalar and bus.width == 1:
             parts.append(f"{bus.name}={bits[0]}")
         else:
-            parts.append(f"{bus.name}=0b" + "".join(str(b) for b in reversed(bits)))
+            value = sum(b << k for k, b in enumerate(bits))
+            parts.append(f"{bus.name}[{bus.width}]=0x{value:0{(bus.width + 3) // 4}x}")
     return " ".join(parts) + f" (point {point})"
 
 
@@ -47,7 +51,8 @@ def format_verdict(verdict: Verdict, table: Table) -> str:
     for o in verdict.outputs:
         status = "PASS" if o.passed else "FAIL"
         vectors = f"{o.vectors:,}".rjust(vec_w) + " vectors" if o.vectors else "proof".rjust(vec_w + 8)
-        lines.append(f"  {o.name:<{width}}  {status}  {vectors}  {o.method}")
+        method = o.method if o.passed else o.method.replace("proven:", "refuted:")
+        lines.append(f"  {o.name:<{width}}  {status}  {vectors}  {method}")
         if o.failure is not None:
             point, expected, actual = o.failure
             lines.append(

@@ -3,8 +3,10 @@
 Vectors
 -------
 Up to ``exhaustive_limit`` inputs every point is driven (points where every output is a don't-care are skipped:
-nothing there can fail). Beyond it: the corner cases and seeded random points of
-:func:`plaforge.verify.vectors.sample_points`, the same vectors the stand-alone harness drives.
+nothing there can fail): the verdict is then a proof. Beyond it: the corner cases and seeded random points of
+:func:`plaforge.verify.vectors.sample_points`, the same vectors the stand-alone harness drives: a sample, and the
+verdict's method says so. :func:`check_simulated` judges the vectors of any simulator (Amaranth's here, iverilog's in
+:mod:`plaforge.verify.iverilog`).
 
 Speed
 -----
@@ -17,7 +19,7 @@ measures the rate.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from typing import Any
 
 import numpy as np
@@ -28,12 +30,12 @@ from ..core.table import DEFAULT_ENUM_LIMIT, Table, unpack_bits
 from .equivalence import OutputVerdict, Verdict
 from .vectors import sample_points
 
-__all__ = ["DEFAULT_SAMPLES", "check_component", "simulate_points"]
+__all__ = ["DEFAULT_SAMPLES", "check_component", "check_simulated", "component_ports", "simulate_points", "table_cubes"]
 
 DEFAULT_SAMPLES = 4096
 
 
-def _port_signals(table: Table, component: Any, where: str) -> tuple[list[Port], list[Port], list[Any], list[Any]]:
+def component_ports(table: Table, component: Any, where: str) -> tuple[list[Port], list[Port], list[Any], list[Any]]:
     """The component's signals for the spec's ports, inputs then outputs.
 
     Raises
@@ -121,7 +123,7 @@ def simulate_points(table: Table, component: Any, points: Sequence[int], where: 
     from amaranth.hdl import Cat
     from amaranth.sim import Simulator
 
-    ins, outs, in_sigs, out_sigs = _port_signals(table, component, where)
+    ins, outs, in_sigs, out_sigs = component_ports(table, component, where)
     in_order = [i for p in ins for i in p.members]
     out_order = [j for p in outs for j in p.members]
     drive = _permute(points, in_order)
@@ -154,25 +156,45 @@ def simulate_points(table: Table, component: Any, points: Sequence[int], where: 
     return _permute(raw, inverse)
 
 
-def check_component(
+def _bit_arrays(masks: list[int], m: int) -> list[np.ndarray]:
+    """Per output ``j``, bit ``j`` of every mask as a boolean array."""
+    if m <= 62:
+        arr = np.asarray(masks, dtype=np.int64)
+        return [((arr >> j) & 1).astype(bool) for j in range(m)]
+    return [np.array([g >> j & 1 for g in masks], dtype=bool) for j in range(m)]
+
+
+def table_cubes(table: Table) -> dict[str, list[tuple[int, int]]]:
+    """The ON, OFF and don't-care cubes of every output, output by output, as :func:`sample_points` takes them."""
+    sets = {"on": table.on_cubes, "off": table.off_cubes, "dc": table.dc_cubes}
+    return {kind: [(c.care, c.value) for j in range(table.n_outputs) for c in get(j)] for kind, get in sets.items()}
+
+
+def check_simulated(
     table: Table,
-    component: Any,
+    run: Callable[[list[int]], tuple[list[int], list[int] | None]],
+    simulator: str,
     *,
     exhaustive_limit: int = 16,
     samples: int = DEFAULT_SAMPLES,
     seed: int = 1,
     artifact: str = "module",
 ) -> Verdict:
-    """Simulate ``component`` (a wiring.Component with the table's ports) and judge every output.
+    """Drive vectors through ``run`` (points in, output masks in table order out) and judge every output.
 
     Parameters
     ----------
     table : Table
-    component : amaranth.lib.wiring.Component
+    run : callable
+        The simulation: ``run(points)`` gives each point's outputs as a mask, bit ``j`` for table output ``j``, and
+        (or ``None``) a mask per point of the outputs whose value was undefined (``x``/``z``): those fail.
+    simulator : str
+        Its name, for the verdict's method.
     exhaustive_limit : int
-        Drive every point when the table has at most this many inputs.
+        Drive every point when the table has at most this many inputs (the verdict is then a proof).
     samples, seed : int
-        Beyond the limit: how many random points, and the seed of their stream (corner points come first).
+        Beyond the limit: how many random points, and the seed of their stream (corner points come first). The
+        verdict then covers the vectors driven, and its method says it was sampled.
     artifact : str
         Name used in the verdict and in error messages.
 
@@ -182,34 +204,45 @@ def check_component(
         Per output: pass/fail, care vectors driven (don't-cares skipped), and the first failing vector in driving
         order with the expected and actual values.
     """
-    n, n_out = table.n_inputs, table.n_outputs
+    n = table.n_inputs
     if n <= exhaustive_limit:
         pts = np.arange(1 << n, dtype=np.int64)
-        method = "Amaranth simulation, exhaustive"
+        method = f"proven: {simulator}, exhaustive, every care point"
     else:
-        on_cubes = [(c.care, c.value) for j in range(n_out) for c in table.on_cubes(j)]
-        plist, corners = sample_points(n, on_cubes, samples, seed)
+        plist, corners = sample_points(n, table_cubes(table), samples, seed)
         pts = np.array(plist, dtype=object if n > 62 else np.int64)
-        method = f"Amaranth simulation, {corners} corner + {len(plist) - corners} random vectors (seed {seed})"
+        method = f"sampled: {simulator}, {corners} corner + {len(plist) - corners} random vectors (seed {seed})"
     on, dc = _expected(table, pts)
     all_dc = np.logical_and.reduce(dc) if dc else np.zeros(len(pts), dtype=bool)
     keep = ~all_dc
     pts = pts[keep]
     on = [a[keep] for a in on]
     dc = [a[keep] for a in dc]
-    got = simulate_points(table, component, pts.tolist(), artifact)
-    if table.n_outputs <= 62:
-        got_arr = np.asarray(got, dtype=np.int64)
-        actual = [((got_arr >> j) & 1).astype(bool) for j in range(table.n_outputs)]
-    else:
-        actual = [np.array([g >> j & 1 for g in got], dtype=bool) for j in range(table.n_outputs)]
+    got, unknown = run(pts.tolist())
+    actual, undefined = _bit_arrays(got, table.n_outputs), _bit_arrays(unknown or [0] * len(got), table.n_outputs)
     res = []
     for j, name in enumerate(table.output_names):
         care = ~dc[j]
-        bad = np.flatnonzero(care & (actual[j] != on[j]))
+        bad = np.flatnonzero(care & ((actual[j] != on[j]) | undefined[j]))
         failure = None
         if bad.size:
             k = int(bad[0])
-            failure = (int(pts[k]), int(on[j][k]), int(actual[j][k]))
+            failure = (int(pts[k]), int(on[j][k]), 1 - int(on[j][k]))
         res.append(OutputVerdict(name, failure is None, int(care.sum()), method, failure))
     return Verdict(artifact, tuple(res))
+
+
+def check_component(
+    table: Table,
+    component: Any,
+    *,
+    exhaustive_limit: int = 16,
+    samples: int = DEFAULT_SAMPLES,
+    seed: int = 1,
+    artifact: str = "module",
+) -> Verdict:
+    """Simulate ``component`` (a wiring.Component with the table's ports) in Amaranth and judge every output
+    (:func:`check_simulated`)."""
+    return check_simulated(table, lambda pts: (simulate_points(table, component, pts, artifact), None),
+                           "Amaranth simulation", exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,
+                           artifact=artifact)
