@@ -7,7 +7,8 @@ duplications; and an injection battery of expressions (attribute access, dunder 
 nesting) and port names with quotes, newlines and backslashes.
 
 Figures (2 shared cores, measured): 1,200 malformed files per format (3,600) in 1.3 s; 1,200 injection cases per
-format (3,600) in 1.5 s; 45 more through the command line; about 5 s for the file with start-up.
+format (3,600) in 1.5 s; 45 more through the command line, and one build-and-check with hostile port names;
+about 12 s for the file with start-up.
 """
 
 from __future__ import annotations
@@ -196,3 +197,19 @@ def test_command_line_says_one_line_and_exits_0_or_2(tmp_path: Path, suffix: str
         if res.exit_code == 2:
             err = res.stderr.strip()
             assert err.count("\n") == 0 and err.startswith("plaforge: "), err
+
+
+def test_hostile_names_pass_through_build_and_check_without_running(tmp_path: Path,
+                                                                      monkeypatch: pytest.MonkeyPatch) -> None:
+    # Names holding quotes, backslashes and code reach every generated artifact; building and then checking the
+    # generated modules (which imports them) must run none of it.
+    monkeypatch.chdir(tmp_path)
+    spec = tmp_path / "hostile.pla"
+    spec.write_text(f'.i 2\n.o 2\n.ilb a"+__import__("os").system("touch_{SENTINEL}")+" b\\\\"\n'
+                    f".ob y')+open('{SENTINEL}','w')+(' z\"\"\"\n11 1-\n0- 01\n.e\n", encoding="utf-8")
+    res = CliRunner().invoke(cli, ["build", str(spec), "-o", "out"])
+    assert res.exit_code == 0, res.output + res.stderr
+    for module in ("hostile_sop.py", "hostile_lut.py"):
+        check = CliRunner().invoke(cli, ["check", str(spec), str(tmp_path / "out" / module)])
+        assert check.exit_code == 0, check.output + check.stderr
+    assert not list(tmp_path.rglob(f"*{SENTINEL}*"))
