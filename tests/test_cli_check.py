@@ -35,23 +35,6 @@ def _net(luts: list[dict], driver: str) -> str:
     return json.dumps({"k": 2, "inputs": ["a", "b"], "outputs": {"y": driver}, "luts": luts})
 
 
-@pytest.mark.parametrize(
-    ("text", "message"),
-    [
-        (_net([{"name": "n0", "inputs": ["a", "ghost"], "init": "0x8"}], "n0"), "reads 'ghost'"),
-        (_net([{"name": "n0", "inputs": ["a", "n1"], "init": "0x8"},
-               {"name": "n1", "inputs": ["n0", "b"], "init": "0x8"}], "n1"), "reads 'n1'"),
-    ],
-    ids=["unknown-fan-in", "loop"],
-)
-def test_lut_json_that_is_not_a_network(tmp_path: Path, text: str, message: str) -> None:
-    (tmp_path / "net.json").write_text(text)
-    status, out = _check(_spec(tmp_path), tmp_path / "net.json")
-    assert status == 2, out
-    assert message in out and "not a LUT network" in out
-    assert "Traceback" not in out and len(out.strip().splitlines()) == 1  # one line, no traceback
-
-
 _COMPONENT = """\
 from amaranth.hdl import Module
 from amaranth.lib import wiring
@@ -66,29 +49,56 @@ class Broken(wiring.Component):
 """
 
 
-@pytest.mark.parametrize(
-    ("body", "message"),
-    [
-        ("\n    def elaborate(self, platform):\n        raise RuntimeError('no logic here')\n",
-         "elaborating it failed: RuntimeError: no logic here"),
-        ("\n    def __init__(self):\n        raise ValueError('no ports today')\n",
-         "Broken() failed: ValueError: no ports today"),
-        ("    c: In(1)\n\n    def elaborate(self, platform):\n        return Module()\n", None),
-    ],
-    ids=["elaborate-raises", "constructor-raises", "fine"],
-)
-def test_module_that_cannot_be_simulated(tmp_path: Path, body: str, message: str | None) -> None:
-    (tmp_path / "broken.py").write_text(_COMPONENT.format(body=body))
-    status, out = _check(_spec(tmp_path), tmp_path / "broken.py")
-    if message is None:  # an extra input port is allowed; y stays 0, so a = b = 1 fails: exit 1, a failed check
-        assert status == 1 and "y  FAIL" in out, out
-        return
-    assert status == 2, out
-    assert message in out and "Traceback" not in out
+_GOOD_V = "module and2(input a, input b, output y);\n  assign y = a & b;\nendmodule\n"
+
+# Every artifact that cannot be judged, as (file name, text, a phrase of the one-line message).
+_BAD = [
+    ("net.json", _net([{"name": "n0", "inputs": ["a", "ghost"], "init": "0x8"}], "n0"), "reads 'ghost'"),
+    ("net.json", _net([{"name": "n0", "inputs": ["a", "n1"], "init": "0x8"},
+                       {"name": "n1", "inputs": ["n0", "b"], "init": "0x8"}], "n1"), "reads 'n1'"),
+    ("net.json", _net([{"name": "n0", "inputs": ["a", "b"], "init": "0x1F"}], "n0"), "does not fit 2 inputs"),
+    ("none.py", "X = 1\n", "found 0"),
+    ("two.py", _COMPONENT.format(body="") + "\n\nclass Again(Broken):\n    pass\n", "found 2"),
+    ("other.py", _COMPONENT.replace("b: In(1)", "c: In(1)").format(body=""), "no port 'b'"),
+    ("wide.py", _COMPONENT.replace("b: In(1)", "b: In(2)").format(body=""), "port 'b'"),
+    ("raises.py", _COMPONENT.format(body="\n    def elaborate(self, platform):\n        raise RuntimeError('no logic')\n"),
+     "elaborating it failed: RuntimeError: no logic"),
+    ("ctor.py", _COMPONENT.format(body="\n    def __init__(self):\n        raise ValueError('no ports')\n"),
+     "Broken() failed: ValueError: no ports"),
+    ("parse.v", "module and2(input a, input b, output y);\n  assign y = a &;\nendmodule\n", "Yosys cannot read it"),
+    ("ports.v", _GOOD_V.replace("input b", "input c").replace("a & b", "a & c"), "no port 'b'"),
+    ("empty.v", "// nothing here\n", "one top module"),
+    ("loop.v", ("module and2(input a, input b, output y);\n  wire w;\n  assign w = ~(w & a);\n"
+                "  assign y = w & b;\nendmodule\n"), "loop"),
+    ("latch.v", "module and2(input a, input b, output reg y);\n  always @(posedge a) y <= b;\nendmodule\n",
+     "not combinational"),
+    ("x.txt", "", "unknown artifact type"),
+]
 
 
-def test_module_made_for_another_spec(tmp_path: Path) -> None:
-    (tmp_path / "other.py").write_text(_COMPONENT.replace("b: In(1)", "c: In(1)").format(body=""))
-    status, out = _check(_spec(tmp_path), tmp_path / "other.py")
-    assert status == 2, out  # ports that do not match are bad input, not a failed check
-    assert "no port 'b'" in out and "Traceback" not in out
+@pytest.mark.parametrize(("name", "text", "message"), _BAD, ids=[f"{n}:{m}" for n, _, m in _BAD])
+def test_bad_artifacts_exit_2_with_one_line(tmp_path: Path, name: str, text: str, message: str) -> None:
+    """docs/conventions.md: an artifact that cannot be judged is bad input (2), one line on stderr, no traceback."""
+    (tmp_path / name).write_text(text)
+    res = CliRunner().invoke(cli, ["check", str(_spec(tmp_path)), str(tmp_path / name)])
+    assert res.exit_code == 2, res.output
+    assert message in res.stderr and len(res.stderr.strip().splitlines()) == 1, res.stderr
+    assert "Traceback" not in res.output and isinstance(res.exception, SystemExit)
+
+
+def test_extra_input_port_is_left_free(tmp_path: Path) -> None:
+    """An extra input port is allowed and left free; y stays 0, so a = b = 1 fails: exit 1, a failed check."""
+    body = "    c: In(1)\n\n    def elaborate(self, platform):\n        return Module()\n"
+    (tmp_path / "extra.py").write_text(_COMPONENT.format(body=body))
+    status, out = _check(_spec(tmp_path), tmp_path / "extra.py")
+    assert status == 1 and "y  FAIL" in out and "a=1 b=1" in out, out
+
+
+def test_verilog_checked_and_simulated(tmp_path: Path) -> None:
+    """A right .v passes the proof (and iverilog's simulation where installed); y = a | b fails at a=1 b=0."""
+    (tmp_path / "and2.v").write_text(_GOOD_V)
+    res = CliRunner().invoke(cli, ["check", str(_spec(tmp_path)), str(tmp_path / "and2.v"), "--simulate"])
+    assert res.exit_code == 0 and "proven: SAT on the gate netlist" in res.output, res.output
+    (tmp_path / "or2.v").write_text(_GOOD_V.replace("a & b", "a | b"))
+    status, out = _check(_spec(tmp_path), tmp_path / "or2.v")
+    assert status == 1 and "refuted" in out and "expected 0, got 1" in out, out
