@@ -25,16 +25,32 @@ from .group import cli
               help="Seconds the exact solver may spend.")
 @click.option("--budget-rows", type=click.IntRange(min=0), help="Product-term rows the target device offers.")
 @click.option("--budget-luts", type=click.IntRange(min=0), help="LUTs the target region offers.")
+@click.option("--hazard-free", "hazard_free", type=click.Choice(["care", "all"]), is_flag=False, flag_value="care",
+              default=None, help="Make the cover free of static hazards for single-input changes (=all: don't-cares "
+              "made ON).")
+@click.option("--changing", help="Only these inputs or buses change (comma-separated), for hazards.")
+@click.option("--gates", help="Also write gate-level modules and structural Verilog: nand, nor or nand,nor.")
+@click.option("--max-fanin", type=click.Choice(["2", "3", "4", "8"]), default="8", show_default=True,
+              help="Most inputs of a gate in --gates (wider ones become balanced trees).")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object and nothing else.")
 def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: float, budget_rows: int | None,
-              budget_luts: int | None, as_json: bool) -> None:
+              budget_luts: int | None, hazard_free: str | None, changing: str | None, gates: str | None,
+              max_fanin: str, as_json: bool) -> None:
     """Minimize SPEC, map it to LUTs, generate modules and Verilog, and check every artifact against SPEC.
 
     Exit status 1 when a check fails or a result does not fit a budget.
     """
+    from ..core.errors import PlaforgeError
+    from ..verify.hazards import changing_mask
+
+    styles = tuple(dict.fromkeys(s.strip() for s in (gates or "").split(",") if s.strip()))
+    if set(styles) - {"nand", "nor"}:
+        raise PlaforgeError(f"--gates {gates!r}: give nand, nor or nand,nor")
     table = read_spec(spec)
     opts = BuildOptions(k=k, exact=exact, cost=cost, time_limit=time_limit, budget_rows=budget_rows,
-                        budget_luts=budget_luts)
+                        budget_luts=budget_luts, hazard_free=hazard_free,
+                        changing=None if changing is None else changing_mask(table, changing), gates=styles,
+                        max_fanin=int(max_fanin))
     result = build(table, out, opts, spec_path=spec)
     if as_json:
         click.echo(json.dumps(result.to_json_obj(), sort_keys=True))

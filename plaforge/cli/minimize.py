@@ -22,9 +22,13 @@ from .group import cli
 @click.option("--cost", type=click.Choice(["shared", "per-output"]), default="shared", show_default=True,
               help="shared: count distinct product terms; per-output: count terms per output (no sharing).")
 @click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
+@click.option("--hazard-free", "hazard_free", type=click.Choice(["care", "all"]), is_flag=False, flag_value="care",
+              default=None, help="Cover every adjacent pair of ON points by one term (no static hazard for "
+              "single-input changes); =all also makes the don't-cares ON.")
+@click.option("--changing", help="With --hazard-free: only these inputs or buses change (comma-separated names).")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else.")
 def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, memory_limit: int, cost: str,
-                 phase: bool, as_json: bool) -> None:
+                 phase: bool, hazard_free: str | None, changing: str | None, as_json: bool) -> None:
     """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
     from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..formats import read_spec
@@ -36,11 +40,25 @@ def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, mem
     options = MinimizeOptions(exact=exact, time_limit=time_limit, cost=cost,  # type: ignore[arg-type]
                               phase=phase, progress=exact and sys.stderr.isatty(), memory_limit=memory_limit)
     cover = minimize(table, options)
+    added = []
+    if hazard_free is not None:
+        from ..minimize.hazards import added_terms, hazard_free_cover
+        from ..verify.hazards import changing_mask
+
+        ordinary = cover
+        cover = hazard_free_cover(table, cover, scope=hazard_free, changing=changing_mask(table, changing),
+                                  options=options)
+        added = added_terms(ordinary, cover)
     if out is not None:
         write_text_atomic(out, write_pla(cover, spec))
     if as_json:
         click.echo(json.dumps(cover_summary(cover)))
     else:
         click.echo(format_summary(cover))
+        if hazard_free is not None:
+            click.echo(f"hazard-free ({hazard_free}): {len(added)} terms added for static hazards" + (":" if added else ""))
+            m = cover.n_outputs
+            for c in added:
+                click.echo(f"  {c.text(cover.n_inputs)} {''.join('1' if c.outputs >> j & 1 else '0' for j in range(m))}")
         if out is not None:
             click.echo(f"cover written to {out}")

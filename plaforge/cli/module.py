@@ -17,15 +17,20 @@ from .group import cli
               help="Write the Amaranth module here (default: print it).")
 @click.option("--verilog", "verilog", type=click.Path(), help="Also write Verilog here.")
 @click.option("--style", type=click.Choice(STYLES), default="sop", show_default=True,
-              help="sop: shared product terms; lut: one constant per LUT.")
+              help="sop: shared product terms; lut: one constant per LUT; nand: NAND-NAND gates from the cover; "
+              "nor: NOR-NOR gates from a cover of the complement.")
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT size for --style lut.")
+@click.option("--max-fanin", type=click.Choice(["2", "3", "4", "8"]), default="8", show_default=True,
+              help="Most inputs of a gate for --style nand|nor (wider ones become balanced trees).")
 @click.option("--harness", "harness", type=click.Path(),
               help="Also write a stand-alone pytest file that simulates the module against SPEC (needs -o; keep "
                    "both files in one directory).")
-def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, harness: str | None) -> None:
+def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, max_fanin: str,
+               harness: str | None) -> None:
     """Generate an Amaranth component implementing SPEC."""
     from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..emit.amaranth import module_source
+    from ..emit.gates import GateNetwork, gates_module_source
     from ..flow import realize, spec_digest
     from ..formats import read_spec
 
@@ -35,17 +40,24 @@ def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: i
         raise PlaforgeError(f"module file {out!r} must end in .py so it can be imported")
     refuse_clobbering([("SPEC", spec)], [("-o", out), ("--verilog", verilog), ("--harness", harness)])
     table = read_spec(spec)
-    artifact = realize(table, style, k=k)
-    source = module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec))
+    artifact = realize(table, style, k=k, max_fanin=int(max_fanin))
+    if isinstance(artifact, GateNetwork):
+        source = gates_module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec))
+    else:
+        source = module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec))
     if out is None:
         click.echo(source, nl=False)
     else:
         write_text_atomic(out, source)
         click.echo(f"module:  {out}")
     if verilog is not None:
+        from ..emit.gates_verilog import gates_verilog_source
         from ..emit.verilog import verilog_source
 
-        write_text_atomic(verilog, verilog_source(source, Path(out or spec).stem))
+        stem = Path(out or spec).stem
+        text = (gates_verilog_source(table, artifact, stem) if isinstance(artifact, GateNetwork)
+                else verilog_source(source, stem))
+        write_text_atomic(verilog, text)
         if out is not None:
             click.echo(f"verilog: {verilog}")
     if harness is not None and out is not None:
