@@ -188,7 +188,21 @@ def gate_network(cover: Cover, style: str, max_fanin: int = 8) -> GateNetwork:
             outputs.append(b.tree("and", made, not inv))
         else:
             outputs.append(b.tree("or", made, inv))
-    return GateNetwork(style, cover, tuple(b.gates), tuple(outputs), max_fanin)
+    # a double inversion removed may leave an inverter nothing reads: keep only the gates the outputs reach
+    used: set[int] = set()
+    stack = [v for kind, v in outputs if kind == "gate"]
+    while stack:
+        k = stack.pop()
+        if k not in used:
+            used.add(k)
+            stack += [v for kind, v in b.gates[k].inputs if kind == "gate"]
+    new = {k: pos for pos, k in enumerate(sorted(used))}
+
+    def moved(r: Ref) -> Ref:
+        return ("gate", new[r[1]]) if r[0] == "gate" else r
+
+    gates = tuple(Gate(b.gates[k].kind, tuple(moved(r) for r in b.gates[k].inputs)) for k in sorted(used))
+    return GateNetwork(style, cover, gates, tuple(moved(r) for r in outputs), max_fanin)
 
 
 # -- the Amaranth module ------------------------------------------------------------------------------------------
