@@ -181,7 +181,7 @@ def _exact(table: Table, cover: Cover, scope: str, changing: int, options: Minim
         budget.size(float(idx.size) * pt.size, f"for a {idx.size:,} x {pt.size:,} hazard covering matrix")
         budget.time("building the hazard covering problem")
         holds = ((pt[None, :] & care[idx, None]) == value[idx, None]) & ((free[None, :] & care[idx, None]) == 0)
-        unit_of = np.array([index[(int(p), j)] if (int(p), j) in index else -1 for p in idx], dtype=np.int64)
+        unit_of = np.array([index.get((int(p), j), -1) for p in idx], dtype=np.int64)
         for r in np.flatnonzero(holds.any(axis=1)):
             useful[int(unit_of[r])] |= 1 << j
         packed = np.packbits(holds, axis=0).T
@@ -284,7 +284,8 @@ def hazard_free_cover(table: Table, cover: Cover, *, scope: str = "care", changi
     cubes = _heuristic(table, cover, scope, mask, deadline)
     optimal, bound = False, cover.lower_bound
     if opts.exact:
-        cubes, optimal, bound = _exact(table, cover, scope, mask, opts, deadline, cubes)
+        cubes, optimal, found = _exact(table, cover, scope, mask, opts, deadline, cubes)
+        bound = max(found, cover.lower_bound)  # a hazard-free cover is a cover: the ordinary bound holds too
     rows = sort_cubes(merge_identical(cubes))
     result = cover.with_(cubes=tuple(rows), method="exact" if opts.exact else "heuristic", optimal=optimal,
                          lower_bound=min(bound, term_count(rows, opts.cost == "per-output")),
