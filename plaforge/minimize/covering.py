@@ -30,7 +30,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..core.cube import Cube, complement
+from ..core.cube import Cube, cube_list_contains
 from ..core.errors import LimitReached
 from ..core.table import FunctionSets
 from .primes import Budget, Primes, multi_output_primes
@@ -290,29 +290,21 @@ def incompatible_points_bound(on: Sequence[Cube], f: Sequence[Cube], n: int, dea
     """Size of a greedy set of ON points of one output no two of which one implicant can hold: a lower bound on
     the product terms feeding that output.
 
-    Two ON points share an implicant only when their supercube stays inside ``F = ON ∪ DC`` (``f``); the OFF set is
-    the complement of ``f``. Candidates are two opposite corners of every ON cube; the search stops at
-    ``deadline`` with what it has (still a bound). 0 when ON is empty.
+    Two ON points share an implicant only when their supercube stays inside ``F = ON ∪ DC`` (``f``; a tautology
+    check of the cofactor, no complement is built). Candidates are two opposite corners of every ON cube; the search
+    stops at ``deadline`` with what it has (still a bound, at least 1). 0 when ON is empty.
     """
     if not on:
         return 0
     full = (1 << n) - 1
-    off = complement(list(f))
-    oc = np.fromiter((c.care for c in off), dtype=np.int64, count=len(off))
-    ov = np.fromiter((c.value for c in off), dtype=np.int64, count=len(off))
     reps = sorted({c.value for c in on} | {c.value | (full & ~c.care) for c in on})
-    kept: list[int] = []
-    for p in reps:
+    fl = list(f)
+    kept = [reps[0]]
+    for p in reps[1:]:
         if time.monotonic() > deadline:
             break
-        if kept:
-            q = np.array(kept, dtype=np.int64)
-            scare = ~(q ^ p) & full
-            sval = scare & p
-            meets = (((sval[:, None] ^ ov[None, :]) & scare[:, None] & oc[None, :]) == 0).any(axis=1)
-            if not meets.all():
-                continue
-        kept.append(p)
+        if all(not cube_list_contains(fl, Cube(full & ~(p ^ q), p & ~(p ^ q))) for q in kept):
+            kept.append(p)
     return len(kept)
 
 
@@ -325,8 +317,10 @@ def quick_lower_bound(fs: FunctionSets, per_output: bool, seconds: float = 1.0) 
     of which share a prime (a minimum cover can always be made of primes). Any width; 0 only when no output has an
     ON point.
     """
-    deadline = time.monotonic() + seconds
-    alone = [incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, deadline) for j in range(fs.m)]
+    start = time.monotonic()
+    alone = [incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, start + seconds / 2 * (j + 1) / fs.m)
+             for j in range(fs.m)]
+    deadline = start + seconds
     bound = sum(alone) if per_output else max(alone, default=0)
     groups = [[j] for j in range(fs.m)] if per_output else [list(range(fs.m))]
     total = 0
@@ -350,9 +344,10 @@ def phase_lower_bound(true_sets: FunctionSets, comp_sets: FunctionSets, per_outp
                       seconds: float = 1.0) -> int:
     """A lower bound valid for every output phase assignment: per output the smaller
     :func:`incompatible_points_bound` of its two phases; their maximum for rows, their sum per output."""
-    deadline = time.monotonic() + seconds
+    start, m = time.monotonic(), true_sets.m
     each = [
-        min(incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, deadline) for fs in (true_sets, comp_sets))
-        for j in range(true_sets.m)
+        min(incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, start + seconds * (2 * j + k + 1) / (2 * m))
+            for k, fs in enumerate((true_sets, comp_sets)))
+        for j in range(m)
     ]
     return sum(each) if per_output else max(each, default=0)

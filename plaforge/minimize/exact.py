@@ -297,7 +297,7 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int, seed: 
         With ``options.phase``: the assignment the seed realizes (a good start, not a constraint); otherwise the
         outputs realized in complement (bit ``j``: output ``j``).
     seed : SeedCover
-        Gives the heuristic cover that seeds the solver (and is the fallback); it gets a third of the time left.
+        Gives the heuristic cover that seeds the solver (and is the fallback); it gets half the time left.
     deadline : float
         ``time.monotonic()`` by which the call returns (the whole call's time limit).
 
@@ -315,7 +315,7 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int, seed: 
     per_output = options.cost == "per-output"
     left = max(0.05, deadline - time.monotonic())
     try:
-        heur: Sequence[Cube] | None = seed(fs, replace(options, time_limit=max(0.05, left / 3)))
+        heur: Sequence[Cube] | None = seed(fs, replace(options, time_limit=max(0.05, left / 2)))
     except (InternalError, LimitReached):
         heur = None
     sets = (table.cover_sets(0), table.cover_sets((1 << m) - 1)) if options.phase else (fs, fs)
