@@ -5,9 +5,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Literal
 
-__all__ = ["CostModel", "MinimizeOptions"]
+__all__ = ["CostModel", "Effort", "MinimizeOptions"]
 
 CostModel = Literal["shared", "per-output"]
+Effort = Literal["fast", "normal", "high"]
 
 
 @dataclass(frozen=True)
@@ -35,7 +36,15 @@ class MinimizeOptions:
         Most inputs the exact path accepts (it enumerates the 3**n cubes).
     memory_limit : int
         Megabytes the exact path may plan to use for its primes and covering problem; a step estimated above it is
-        refused with :class:`plaforge.core.errors.SizeLimit` naming ``--memory-limit``.
+        refused with :class:`plaforge.core.errors.SizeLimit` naming ``--memory-limit``. Also what the heuristic's
+        child process may grow by (its address-space limit), past which it fails with that ``SizeLimit``.
+    effort : {"fast", "normal", "high"}
+        Heuristic path: ``fast`` one minimization; ``normal`` also a second starting cover and one more descent
+        from each result, as far as they fit a budget relative to the first run; ``high`` all of them, descents
+        repeated while they help, no budget but the time limit (see :mod:`plaforge.minimize.heuristic`).
+    scale_time_limit : bool
+        Heuristic path: raise ``time_limit`` for large tables (the rule is in :mod:`plaforge.minimize.heuristic`);
+        the CLI clears it when ``--time-limit`` is given.
     """
 
     exact: bool = False
@@ -46,12 +55,16 @@ class MinimizeOptions:
     isolate: bool = True
     exact_limit: int = 14
     memory_limit: int = 2048
+    effort: Effort = "normal"
+    scale_time_limit: bool = True
 
     def __post_init__(self) -> None:
         if self.cost not in ("shared", "per-output"):
             raise ValueError(f"cost must be 'shared' or 'per-output', not {self.cost!r}")
         if not self.time_limit > 0:
             raise ValueError(f"time_limit must be positive seconds, not {self.time_limit!r}")
+        if self.effort not in ("fast", "normal", "high"):
+            raise ValueError(f"effort must be 'fast', 'normal' or 'high', not {self.effort!r}")
         if not self.memory_limit > 0:
             raise ValueError(f"memory_limit must be positive megabytes, not {self.memory_limit!r}")
         if not 1 <= self.exact_limit <= 20:
