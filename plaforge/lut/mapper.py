@@ -190,8 +190,9 @@ def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
 
 def _decomposable(size: int, opts: LutOptions) -> bool:
     """An output of ``size`` support inputs is decomposed on its truth table: within ``decompose_limit``, and one
-    pass dropping unneeded signals (``size**2 * 2**size`` elements) fits the work budget."""
-    return size <= opts.decompose_limit and (not opts.work_budget or size * size << size <= opts.work_budget)
+    pass dropping unneeded signals (``size**2 * 2**size`` elements) fits a sixteenth of the work budget (with the
+    default budget: up to 16 inputs)."""
+    return size <= opts.decompose_limit and (not opts.work_budget or size * size << size <= opts.work_budget // 16)
 
 
 def _past(deadline: float | None) -> bool:

@@ -26,7 +26,8 @@ class LutOptions:
     work_budget : int
         Most array elements the decomposition may process for one output (group), a machine-independent measure
         of its time; past it that output is rolled back and mapped by cuts on the cover (0: no budget). Roughly
-        25 to 50 ns per element.
+        25 to 50 ns per element. Outputs whose support ``s`` gives ``s**2 * 2**s`` above a sixteenth of it are
+        not decomposed at all.
     time_limit : float or None
         Wall-clock seconds for the whole mapping (None: no limit). Once it has passed, outputs not yet decomposed
         are mapped by cuts on the cover and the optional passes (other orders, smaller sizes, remapping, depth)
@@ -57,7 +58,7 @@ class LutOptions:
 
     decompose_limit: int = 20
     lut_budget: int = 2000
-    work_budget: int = 1 << 25
+    work_budget: int = 1 << 28
     time_limit: float | None = None
     bound_set_budget: int = 1500
     beam: int = 8
