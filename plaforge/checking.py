@@ -37,7 +37,7 @@ from .verify.netlist import netlist_of_component, netlist_of_verilog
 from .verify.sat import sat_check_cover, sat_check_netlist, sat_check_network
 from .verify.simulate import DEFAULT_SAMPLES, check_component, check_simulated, component_ports
 
-__all__ = ["check_artifact", "prove"]
+__all__ = ["check_artifact", "prove", "read_network"]
 
 
 def prove(table: Table, artifact: Cover | LutNetwork, *, enum_limit: int = DEFAULT_ENUM_LIMIT,
@@ -67,6 +67,10 @@ def _read_network(p: Path) -> LutNetwork:
         raise ArtifactError(
             f"{p}: not a LUT network ({type(exc).__name__}: {exc}); expected keys k, inputs, outputs, luts"
         ) from None
+
+
+read_network = _read_network
+"""Read a LUT network JSON file (docs/conventions.md); ArtifactError naming the file when it is not one."""
 
 
 def _combine(proof: Verdict, witness: Verdict | None) -> Verdict:

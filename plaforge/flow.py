@@ -18,21 +18,25 @@ from pathlib import Path
 from .checking import check_artifact
 from .core.cube import Cover
 from .core.fileio import make_directory, refuse_clobbering, write_text_atomic
-from .core.names import identifier
+from .core.names import class_name_for, identifier
 from .core.network import LutNetwork
 from .core.table import Table
+from .device import Profile, fit, lut_cones
 from .emit.amaranth import module_source
 from .emit.gates import GateNetwork, gate_network, gates_module_source
 from .emit.gates_verilog import gates_verilog_source
 from .emit.harness import harness_source
-from .emit.verilog import verilog_source
+from .emit.verilog import readable_verilog, renamed_ports, verilog_name
+from .formats._files import read_text
+from .formats.design import declared_name
 from .formats.pla import write_pla
 from .lut import LutOptions, map_luts
 from .minimize import MinimizeOptions, minimize
 from .minimize.hazards import hazard_free_cover
 from .verify.hazards import OutputHazards, find_hazards
 
-__all__ = ["STYLES", "BuildOptions", "BuildResult", "build", "complement_table", "realize", "spec_digest"]
+__all__ = ["STYLES", "BuildOptions", "BuildResult", "DesignNames", "build", "complement_table", "design_names",
+           "made_artifact", "realize", "spec_digest", "verilog_header"]
 
 STYLES = ("sop", "lut", "nand", "nor")
 """What :func:`realize` can make: ``sop`` a minimized cover, ``lut`` a k-input LUT network, ``nand`` NAND-NAND
@@ -91,6 +95,49 @@ def realize(
     return map_luts(table, cover, k, lut_options)
 
 
+def made_artifact(table: Table, path: str | Path, style: str = "sop", *, max_fanin: int = 8,
+                  k: int = 6) -> Cover | LutNetwork | GateNetwork:
+    """A cover (``.pla``) or LUT network (``.json``) made earlier, checked against ``table``, then realized in
+    ``style``: a cover as itself (``sop``), mapped to LUTs (``lut``) or as NAND-NAND gates (``nand``); a LUT network
+    as itself (whatever ``style`` says, except the gate styles).
+
+    Raises
+    ------
+    PlaforgeError
+        For another suffix, or a style the artifact cannot give.
+    ArtifactError
+        If the file cannot be read or is made for other names.
+    CheckFailed
+        If the artifact does not realize ``table`` (exit status 1), naming the first failing output.
+    """
+    from .checking import prove, read_network
+    from .core.errors import CheckFailed, PlaforgeError
+    from .core.names import check_names
+    from .formats.pla import read_cover
+
+    p = Path(path)
+    suffix = p.suffix.lower()
+    if suffix == ".pla":
+        artifact: Cover | LutNetwork = read_cover(p)
+    elif suffix == ".json":
+        artifact = read_network(p)
+        if style in ("nand", "nor"):
+            raise PlaforgeError(f"--from {p.name}: a LUT network gives a lut module, not --style {style}")
+    else:
+        raise PlaforgeError(f"--from {p.name}: expected a cover (.pla) or a LUT network (.json)")
+    check_names(table, artifact.input_names, artifact.output_names, f"--from {p.name}")
+    verdict = prove(table, artifact, name=p.name)
+    bad = [o.name for o in verdict.outputs if not o.passed]
+    if bad:
+        raise CheckFailed(f"--from {p.name} does not realize the spec: {', '.join(bad)} differ; "
+                          "plaforge check names a point")
+    if isinstance(artifact, LutNetwork) or style == "sop":
+        return artifact
+    if style == "nor":
+        raise PlaforgeError("--style nor minimizes the complement of the spec; a cover of the spec cannot give it")
+    return realize(table, style, cover=artifact, k=k, max_fanin=max_fanin)
+
+
 def spec_digest(path: str | os.PathLike[str]) -> str:
     """SHA-256 hex digest of the spec file's bytes, as generated modules quote it."""
     return hashlib.sha256(Path(path).read_bytes()).hexdigest()
@@ -122,6 +169,15 @@ class BuildOptions:
         Gate-level styles to write as modules and structural Verilog: ``"nand"``, ``"nor"``.
     max_fanin : int
         Most inputs of a gate in those.
+    name : str or None
+        Design name (component class, Verilog modules, file stems); None: ``[design] name`` or the spec's stem.
+    phase : bool
+        Choose each output's polarity to lower the cost (outputs realized inverted).
+    device : Profile or None
+        Fit the result to this device (:mod:`plaforge.device`); its LUT size replaces ``k``, and when its outputs
+        have programmable polarity a phase-assigned cover is tried too.
+    reports : bool
+        Also write ``report.md`` and ``report.html``.
     """
 
     k: int = 6
@@ -135,6 +191,10 @@ class BuildOptions:
     changing: int | None = None
     gates: tuple[str, ...] = ()
     max_fanin: int = 8
+    name: str | None = None
+    phase: bool = False
+    device: Profile | None = None
+    reports: bool = True
 
 
 @dataclass
@@ -150,6 +210,8 @@ class BuildResult:
     notes: list[str] = field(default_factory=list)
     hazards: list[OutputHazards] = field(default_factory=list)
     gates: dict[str, GateNetwork] = field(default_factory=dict)
+    device: dict | None = None
+    names: DesignNames | None = None
 
     @property
     def passed(self) -> bool:
@@ -157,7 +219,14 @@ class BuildResult:
 
     @property
     def fits(self) -> bool:
-        return all(f["fits"] for f in self.fit.values())
+        return all(f["fits"] for f in self.fit.values()) and (self.device is None or self.device["fits"])
+
+    def per_output(self) -> dict[str, dict]:
+        """Output name -> product terms feeding it, LUTs in its cone, whether realized inverted."""
+        terms = self.cover.terms()
+        cones = lut_cones(self.network) if self.network is not None else {}
+        return {n: {"terms": terms[n], "luts": cones.get(n, 0), "inverted": self.cover.is_inverted(j)}
+                for j, n in enumerate(self.cover.output_names)}
 
     def to_json_obj(self) -> dict:
         from .minimize.summary import cover_summary
@@ -178,6 +247,9 @@ class BuildResult:
             "hazards": {h.name: h.pairs for h in self.hazards},
             "gates": {s: {"gates": len(g.gates), "depth": g.depth, "max_fanin": g.max_fanin}
                       for s, g in self.gates.items()},
+            "per_output": self.per_output(),
+            "device": self.device,
+            "name": self.names.design if self.names is not None else "",
         }
         if self.network is not None:
             obj["luts"] = {
@@ -189,8 +261,81 @@ class BuildResult:
         return obj
 
 
-def _stem(table: Table) -> str:
-    return identifier(Path(table.source).stem if table.source else "design")
+@dataclass(frozen=True)
+class DesignNames:
+    """Every name derived from a design's name: file stem, component class, Verilog module, C prefix."""
+
+    design: str
+    stem: str
+    class_name: str
+    module: str
+
+
+def design_names(table: Table, spec_path: str | Path | None = None, name: str | None = None) -> DesignNames:
+    """The names for a design: ``name`` when given, else the TOML spec's ``[design] name``, else the spec's stem.
+
+    All come from the one sanitizer, :func:`plaforge.core.names.identifier` (the class name in CamelCase).
+    """
+    design = name
+    if design is None and spec_path is not None and Path(spec_path).suffix.lower() == ".toml":
+        design = declared_name(read_text(Path(spec_path)))
+    if design is None:
+        design = Path(table.source).stem if table.source else "design"
+    stem = identifier(design)
+    return DesignNames(design, stem, class_name_for(design), verilog_name(stem))
+
+
+def verilog_header(table: Table, what: str, source_name: str, digest: str) -> list[str]:
+    """Header comment lines of a readable Verilog module: source, digest, figures, renamed ports, the caution."""
+    import textwrap
+
+    from .report import CAUTION
+
+    lines = [f"{what}, generated by plaforge from {source_name or 'a table'}."]
+    if digest:
+        lines.append(f"spec SHA-256 {digest}")
+    lines.append(f"{table.n_inputs} inputs, {table.n_outputs} outputs.")
+    renamed = renamed_ports(table)
+    if renamed:
+        lines.append("ports renamed where Verilog or the generated component needs it: "
+                     + ", ".join(f"{a} -> {b}" for a, b in renamed))
+    lines += textwrap.wrap(CAUTION, 100)
+    return [ln.replace("\n", " ") for ln in lines]
+
+
+def _choose_cover(table: Table, options: MinimizeOptions, device: Profile | None, net_k: int) -> Cover:
+    """The cover to build on: with a polarity-capable device, the phase-assigned one when only it fits (or misses
+    by less)."""
+    cover = minimize(table, options)
+    if device is None or not device.polarity or options.phase:
+        return cover
+    plain = fit(device, table, cover, None)
+    if plain["fits"]:
+        return cover
+    from dataclasses import replace
+
+    phased = minimize(table, replace(options, phase=True))
+    other = fit(device, table, phased, None)
+
+    def overflow(f: dict) -> int:
+        return sum(x["over"] for x in f["limits"]) + sum(o["terms"] - o["available"] for o in f["outputs"].values()
+                                                         if not o["fits"])
+
+    return phased if other["fits"] or overflow(other) < overflow(plain) else cover
+
+
+def _device_fit(table: Table, cover: Cover, net: LutNetwork, device: Profile,
+                minimize_options: MinimizeOptions) -> dict:
+    first = fit(device, table, cover, net)
+    if first["fits"]:
+        return first
+    comp = None
+    if any(not o["fits"] for o in first["outputs"].values()):
+        comp = minimize(complement_table(table), minimize_options).terms()
+    larger = None
+    if any(x["what"] in ("luts", "depth") and not x["fits"] for x in first["limits"]) and net.k < 8:
+        larger = map_luts(table, cover, net.k + 1)
+    return fit(device, table, cover, net, complement_terms=comp, larger_k=larger)
 
 
 def build(
@@ -202,9 +347,14 @@ def build(
     """
     opts = options or BuildOptions()
     out = make_directory(out_dir)
-    stem = _stem(table)
+    names = design_names(table, spec_path, opts.name)
+    stem = names.stem
     paths = {"cover": out / f"{stem}.pla", "luts": out / f"{stem}.luts.json", "module_sop": out / f"{stem}_sop.py",
-             "module_lut": out / f"{stem}_lut.py", "harness": out / f"test_{stem}.py", "verilog": out / f"{stem}.v"}
+             "module_lut": out / f"{stem}_lut.py", "harness": out / f"test_{stem}.py", "verilog": out / f"{stem}.v",
+             "verilog_lut": out / f"{stem}_lut.v", "listing": out / f"{stem}.eqn.txt"}
+    if opts.reports:
+        paths["report_md"] = out / "report.md"
+        paths["report_html"] = out / "report.html"
     for style in opts.gates:
         paths[f"module_{style}"] = out / f"{stem}_{style}.py"
         paths[f"verilog_{style}"] = out / f"{stem}_{style}.v"
@@ -212,13 +362,15 @@ def build(
         refuse_clobbering([("SPEC", spec_path)], [(f"the {key} artifact", p) for key, p in paths.items()])
     source_name = Path(table.source).name if table.source else ""
     digest = spec_digest(spec_path) if spec_path is not None and Path(spec_path).is_file() else ""
+    k = opts.device.lut_size if opts.device is not None and opts.device.lut_size else opts.k
 
-    minimize_options = MinimizeOptions(exact=opts.exact, cost=opts.cost, time_limit=opts.time_limit)
-    cover = realize(table, "sop", minimize_options=minimize_options)
+    minimize_options = MinimizeOptions(exact=opts.exact, cost=opts.cost, time_limit=opts.time_limit,
+                                       phase=opts.phase)
+    cover = _choose_cover(table, minimize_options, opts.device, k)
     if opts.hazard_free is not None:
         cover = hazard_free_cover(table, cover, scope=opts.hazard_free, changing=opts.changing,
                                   options=minimize_options)
-    res = BuildResult(table, cover, None)
+    res = BuildResult(table, cover, None, names=names)
     res.hazards = find_hazards(table, cover, opts.changing)
     for style in opts.gates:
         gates = realize(table, style, cover=cover, max_fanin=opts.max_fanin, minimize_options=minimize_options)
@@ -229,22 +381,33 @@ def build(
             paths[f"verilog_{style}"], gates_verilog_source(table, gates, f"{stem}_{style}"))  # type: ignore[arg-type]
         res.verdicts[f"module_{style}"] = check_artifact(table, res.artifacts[f"module_{style}"])
     res.artifacts["cover"] = write_text_atomic(paths["cover"], write_pla(cover, source_name or None))
+    from .listing import listing_text
 
-    net = realize(table, "lut", cover=cover, k=opts.k)
+    res.artifacts["listing"] = write_text_atomic(
+        paths["listing"], listing_text(table, cover, f"{names.design}: equations of the cover in {stem}.pla"))
+
+    net = realize(table, "lut", cover=cover, k=k)
     res.network = net
     res.artifacts["luts"] = write_text_atomic(paths["luts"], net.to_json())
 
-    sop_src = module_source(table, cover, source_name=source_name, source_digest=digest)
+    sop_src = module_source(table, cover, source_name=source_name, source_digest=digest,
+                            class_name=names.class_name)
     res.artifacts["module_sop"] = write_text_atomic(paths["module_sop"], sop_src)
-    lut_src = module_source(table, net, source_name=source_name, source_digest=digest)
+    lut_src = module_source(table, net, source_name=source_name, source_digest=digest,
+                            class_name=names.class_name + "Lut")
     res.artifacts["module_lut"] = write_text_atomic(paths["module_lut"], lut_src)
     res.artifacts["harness"] = write_text_atomic(
         paths["harness"], harness_source(table, f"{stem}_sop", source_name=source_name)
     )
     if opts.verilog:
-        res.artifacts["verilog"] = write_text_atomic(paths["verilog"], verilog_source(sop_src, stem))
+        what = f"{names.module}: {cover.rows} product terms, {cover.literals} literals"
+        res.artifacts["verilog"] = write_text_atomic(paths["verilog"], readable_verilog(
+            table, cover, names.module, verilog_header(table, what, source_name, digest)))
+        what = f"{names.module}_lut: {net.count} LUTs of at most {net.k} inputs, depth {net.depth}"
+        res.artifacts["verilog_lut"] = write_text_atomic(paths["verilog_lut"], readable_verilog(
+            table, net, f"{names.module}_lut", verilog_header(table, what, source_name, digest)))
 
-    for key in ("cover", "luts", "module_sop", "module_lut", "verilog"):
+    for key in ("cover", "luts", "module_sop", "module_lut", "verilog", "verilog_lut"):
         if key in res.artifacts:
             res.verdicts[key] = check_artifact(table, res.artifacts[key])
 
@@ -255,4 +418,10 @@ def build(
         res.fit["rows"] = {"budget": opts.budget_rows, "used": cover.rows, "fits": cover.rows <= opts.budget_rows}
     if opts.budget_luts is not None:
         res.fit["luts"] = {"budget": opts.budget_luts, "used": net.count, "fits": net.count <= opts.budget_luts}
+    if opts.device is not None:
+        res.device = _device_fit(table, cover, net, opts.device, minimize_options)
+    if opts.reports:
+        from .report_html import write_reports
+
+        res.artifacts.update(write_reports(res, paths["report_md"], paths["report_html"]))
     return res

@@ -17,7 +17,10 @@ CAUTION = (
 def _fmt_sets(table: Table, j: int) -> str:
     n = table.n_inputs
     on, dc, off = table.on_cubes(j), table.dc_cubes(j), table.off_cubes(j)
-    return f"ON {len(on)} cubes, DC {len(dc)} cubes, OFF {len(off)} cubes" if n > 0 else ""
+    from .listing import plural
+
+    return (f"ON {plural(len(on), 'cube')}, DC {plural(len(dc), 'cube')}, OFF {plural(len(off), 'cube')}"
+            if n > 0 else "")
 
 
 def table_summary(table: Table) -> str:
@@ -38,7 +41,10 @@ def table_summary(table: Table) -> str:
             on_b, dc_b = table.truth(j)
             n_on, n_dc = popcount_bits(on_b), popcount_bits(dc_b)
             extra = f"; points ON {n_on}, DC {n_dc}, OFF {(1 << table.n_inputs) - n_on - n_dc}"
-        shown = ", ".join(sup[:10]) + (f", ... ({len(sup)} in all)" if len(sup) > 10 else "")
+        from .listing import bit_ranges
+
+        order = [table.input_names[i] for bus in table.input_buses for i in reversed(bus.indices)]
+        shown = ", ".join(bit_ranges([x for x in order if x in set(sup)]))
         lines.append(f"  {name:<{width}}  depends on {len(sup)}: {shown or '(constant)'}")
         lines.append(f"  {'':<{width}}  {_fmt_sets(table, j)}{extra}")
     return "\n".join(lines)
@@ -79,8 +85,12 @@ def build_report(result: object) -> str:
             f"(lower bound {lb.get('depth', '?')})"
         )
     for name, f in r.fit.items():  # type: ignore[attr-defined]
-        verdict = "fits" if f["fits"] else "DOES NOT FIT"
-        lines.append(f"  budget {name}: {f['used']} used of {f['budget']}: {verdict}")
+        how = f"{f['budget'] - f['used']} spare" if f["fits"] else f"{f['used'] - f['budget']} over"
+        lines.append(f"  budget {name}: needs {f['used']}, {f['budget']} available: {how}")
+    if getattr(r, "device", None) is not None:
+        from .device import fit_lines
+
+        lines += [f"  {ln}" for ln in fit_lines(r.device)]  # type: ignore[attr-defined]
     lines.append("  artifacts:")
     for key, path in r.artifacts.items():  # type: ignore[attr-defined]
         lines.append(f"    {key:<11} {path}")

@@ -22,7 +22,8 @@ LAYERS: tuple[tuple[str, tuple[str, ...]], ...] = (
     ("formats", ("plaforge.formats",)),
     ("verify", ("plaforge.verify",)),
     ("producers", ("plaforge.minimize", "plaforge.lut", "plaforge.emit")),
-    ("pipeline", ("plaforge.flow", "plaforge.report", "plaforge.checking", "plaforge.bundled")),
+    ("pipeline", ("plaforge.flow", "plaforge.report", "plaforge.checking", "plaforge.bundled", "plaforge.device",
+                  "plaforge.listing", "plaforge.pictures", "plaforge.report_html")),
     ("cli", ("plaforge.cli", "plaforge.__main__")),
     ("api", ("plaforge",)),
 )

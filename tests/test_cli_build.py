@@ -14,11 +14,12 @@ def test_demo_writes_and_checks_every_artifact(tmp_path):
     out = tmp_path / "demo"
     res = CliRunner().invoke(cli, ["demo", "-o", str(out)])
     assert res.exit_code == 0, res.output + res.stderr
-    for name in ("memory_map.pla", "memory_map.luts.json", "memory_map_sop.py", "memory_map_lut.py",
-                 "memory_map.v", "test_memory_map.py"):
+    stem = "kestrel8_decoder"  # the sample's [design] name
+    for name in (f"{stem}.pla", f"{stem}.luts.json", f"{stem}_sop.py", f"{stem}_lut.py", f"{stem}.v",
+                 f"{stem}_lut.v", f"test_{stem}.py", "report.md", "report.html"):
         assert (out / name).is_file(), name
     assert "FAIL" not in res.output
-    assert res.output.count("all 7 outputs pass") == 5  # cover, network, both modules and the Verilog
+    assert res.output.count("all 7 outputs pass") == 6  # cover, network, both modules and both Verilog files
     assert "Caution" in res.output
 
 
@@ -31,7 +32,7 @@ def test_build_json_and_determinism(tmp_path):
     obj = json.loads(r1.output)  # --json: exactly one JSON object on stdout
     assert obj["passed"] is True and obj["inputs"] == 6 and obj["outputs"] == 7
     assert obj["luts"]["k"] == 4
-    assert set(obj["checks"]) == {"cover", "luts", "module_sop", "module_lut", "verilog"}
+    assert set(obj["checks"]) == {"cover", "luts", "module_sop", "module_lut", "verilog", "verilog_lut"}
     for f in a.iterdir():  # docs/conventions.md: the same input gives byte-identical artifacts
         assert f.read_bytes() == (b / f.name).read_bytes(), f.name
 
@@ -40,5 +41,5 @@ def test_budget_that_does_not_fit_exits_1(tmp_path):
     spec = str(sample_path("arbiter.pla"))
     res = CliRunner().invoke(cli, ["build", spec, "-o", str(tmp_path), "--budget-rows", "1"])
     assert res.exit_code == 1
-    assert "DOES NOT FIT" in res.output
-    assert "does not fit the stated budget" in res.stderr
+    assert "budget rows: needs" in res.output and "1 available:" in res.output
+    assert "does not fit the stated device or budget" in res.stderr

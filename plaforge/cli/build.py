@@ -32,10 +32,15 @@ from .group import cli
 @click.option("--gates", help="Also write gate-level modules and structural Verilog: nand, nor or nand,nor.")
 @click.option("--max-fanin", type=click.Choice(["2", "3", "4", "8"]), default="8", show_default=True,
               help="Most inputs of a gate in --gates (wider ones become balanced trees).")
+@click.option("--name", "name", help="Design name for the component class, Verilog modules and file names "
+              "[default: the spec's [design] name, else its file name without the extension].")
+@click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
+@click.option("--device", "device", help="Fit to a device profile: a built-in name or a profile .toml file "
+              "(see docs/devices.md).")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object and nothing else.")
 def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: float, budget_rows: int | None,
               budget_luts: int | None, hazard_free: str | None, changing: str | None, gates: str | None,
-              max_fanin: str, as_json: bool) -> None:
+              max_fanin: str, name: str | None, phase: bool, device: str | None, as_json: bool) -> None:
     """Minimize SPEC, map it to LUTs, generate modules and Verilog, and check every artifact against SPEC.
 
     Exit status 1 when a check fails or a result does not fit a budget.
@@ -46,8 +51,11 @@ def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: f
     styles = tuple(dict.fromkeys(s.strip() for s in (gates or "").split(",") if s.strip()))
     if set(styles) - {"nand", "nor"}:
         raise PlaforgeError(f"--gates {gates!r}: give nand, nor or nand,nor")
+    from ..device import load_profile
+
+    profile = load_profile(device) if device is not None else None
     table = read_spec(spec)
-    opts = BuildOptions(k=k, exact=exact, cost=cost, time_limit=time_limit, budget_rows=budget_rows,
+    opts = BuildOptions(name=name, phase=phase, device=profile, k=k, exact=exact, cost=cost, time_limit=time_limit, budget_rows=budget_rows,
                         budget_luts=budget_luts, hazard_free=hazard_free,
                         changing=None if changing is None else changing_mask(table, changing), gates=styles,
                         max_fanin=int(max_fanin))
@@ -59,4 +67,4 @@ def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: f
     if not result.passed:
         raise CheckFailed("an artifact does not match the spec (see above)")
     if not result.fits:
-        raise CheckFailed("the result does not fit the stated budget (see above)")
+        raise CheckFailed("the result does not fit the stated device or budget (see above)")

@@ -26,17 +26,29 @@ from .group import cli
               default=None, help="Cover every adjacent pair of ON points by one term (no static hazard for "
               "single-input changes); =all also makes the don't-cares ON.")
 @click.option("--changing", help="With --hazard-free: only these inputs or buses change (comma-separated names).")
+@click.option("--listing", is_flag=True, help="Also print each output's equation (sum of products in the spec's "
+              "names; docs/report.md).")
+@click.option("--device", "device", help="Say whether the cover fits a device profile (a built-in name or a .toml "
+              "file); exit 1 when it does not.")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else.")
 def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, memory_limit: int, cost: str,
-                 phase: bool, hazard_free: str | None, changing: str | None, as_json: bool) -> None:
+                 phase: bool, hazard_free: str | None, changing: str | None, listing: bool, device: str | None,
+                 as_json: bool) -> None:
     """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
     from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..formats import read_spec
     from ..formats.pla import write_pla
     from ..minimize import MinimizeOptions, cover_summary, format_summary, minimize
 
+    from ..core.errors import CheckFailed, PlaforgeError
+    from ..device import fit, fit_lines, load_profile
+
+    if as_json and (listing or device):
+        raise PlaforgeError("--json prints the figures only; leave out --listing and --device with it")
     refuse_clobbering([("SPEC", spec)], [("-o", out)])
+    profile = load_profile(device) if device is not None else None
     table = read_spec(spec)
+    phase = phase or (profile is not None and profile.polarity)
     options = MinimizeOptions(exact=exact, time_limit=time_limit, cost=cost,  # type: ignore[arg-type]
                               phase=phase, progress=exact and sys.stderr.isatty(), memory_limit=memory_limit)
     cover = minimize(table, options)
@@ -62,3 +74,14 @@ def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, mem
                 click.echo(f"  {c.text(cover.n_inputs)} {''.join('1' if c.outputs >> j & 1 else '0' for j in range(m))}")
         if out is not None:
             click.echo(f"cover written to {out}")
+        if listing:
+            from ..listing import listing_text
+
+            click.echo("")
+            click.echo(listing_text(table, cover), nl=False)
+        if profile is not None:
+            result = fit(profile, table, cover, None)
+            click.echo("")
+            click.echo("\n".join(fit_lines(result)))
+            if not result["fits"]:
+                raise CheckFailed(f"the cover does not fit device {profile.name} (see above)")

@@ -25,8 +25,14 @@ from .group import cli
 @click.option("--harness", "harness", type=click.Path(),
               help="Also write a stand-alone pytest file that simulates the module against SPEC (needs -o; keep "
                    "both files in one directory).")
+@click.option("--name", "name", help="Design name for the component class and the Verilog module [default: the "
+              "spec's [design] name, else its file name without the extension].")
+@click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
+@click.option("--from", "made", type=click.Path(),
+              help="Use this cover (.pla) or LUT network (.json) made earlier instead of computing one; it is "
+                   "checked against SPEC first (exit 1 when it does not match).")
 def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, max_fanin: str,
-               harness: str | None) -> None:
+               harness: str | None, name: str | None, phase: bool, made: str | None) -> None:
     """Generate an Amaranth component implementing SPEC."""
     from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..emit.amaranth import module_source
@@ -39,12 +45,21 @@ def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: i
     if out is not None and not out.endswith(".py"):
         raise PlaforgeError(f"module file {out!r} must end in .py so it can be imported")
     refuse_clobbering([("SPEC", spec)], [("-o", out), ("--verilog", verilog), ("--harness", harness)])
+    from ..flow import design_names, made_artifact
+    from ..minimize import MinimizeOptions
+
     table = read_spec(spec)
-    artifact = realize(table, style, k=k, max_fanin=int(max_fanin))
-    if isinstance(artifact, GateNetwork):
-        source = gates_module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec))
+    names = design_names(table, spec, name)
+    if made is not None:
+        artifact = made_artifact(table, made, style, max_fanin=int(max_fanin))
     else:
-        source = module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec))
+        artifact = realize(table, style, k=k, max_fanin=int(max_fanin), minimize_options=MinimizeOptions(phase=phase))
+    if isinstance(artifact, GateNetwork):
+        source = gates_module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec),
+                                     class_name=names.class_name)
+    else:
+        source = module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec),
+                               class_name=names.class_name)
     if out is None:
         click.echo(source, nl=False)
     else:
@@ -52,11 +67,15 @@ def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: i
         click.echo(f"module:  {out}")
     if verilog is not None:
         from ..emit.gates_verilog import gates_verilog_source
-        from ..emit.verilog import verilog_source
+        from ..emit.verilog import readable_verilog
+        from ..flow import verilog_header
 
-        stem = Path(out or spec).stem
-        text = (gates_verilog_source(table, artifact, stem) if isinstance(artifact, GateNetwork)
-                else verilog_source(source, stem))
+        if isinstance(artifact, GateNetwork):
+            text = gates_verilog_source(table, artifact, names.module)
+        else:
+            what = f"{names.module}: {style} realization"
+            text = readable_verilog(table, artifact, names.module,
+                                    verilog_header(table, what, Path(spec).name, spec_digest(spec)))
         write_text_atomic(verilog, text)
         if out is not None:
             click.echo(f"verilog: {verilog}")

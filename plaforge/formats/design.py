@@ -75,7 +75,7 @@ from ._numbers import pattern as _pattern
 from ._toml import Locator, load_toml
 from .expr import ExprError, Expression, compile_expr, evaluate
 
-__all__ = ["MAX_WIDTH", "parse_design"]
+__all__ = ["MAX_WIDTH", "declared_name", "parse_design"]
 
 MAX_WIDTH = 4096
 _NAME = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
@@ -550,3 +550,19 @@ def parse_design(text: str, path: str) -> Table:
     [0, 0, 0, 1]
     """
     return _Reader(text, path).table()
+
+
+def declared_name(text: str) -> str | None:
+    """The ``[design] name`` string of a design file's text, or None when it gives none (or is not TOML).
+
+    >>> declared_name('[design]\\nname = "door_lock"\\n[inputs]\\na = 1\\n'), declared_name("[inputs]\\na = 1\\n")
+    ('door_lock', None)
+    """
+    import tomllib
+
+    try:
+        design = tomllib.loads(text).get("design", {})
+    except tomllib.TOMLDecodeError:
+        return None
+    name = design.get("name") if isinstance(design, dict) else None
+    return name if isinstance(name, str) and name.strip() else None
