@@ -86,3 +86,15 @@ def test_sine_table_at_k4_reaches_the_shannon_depth():
     assert net.depth <= 5
     for x in range(256):
         assert net.evaluate(x) == round(127.5 + 127.5 * math.sin(2 * math.pi * x / 256))
+
+
+def test_depth_objective_on_a_multiplier_computes_the_product():
+    # 4 x 4-bit multiplier at k = 4 (Python integer multiplication as reference): some outputs take Shannon trees,
+    # the others keep their own realizations
+    names = [f"a[{i}]" for i in range(4)] + [f"b[{i}]" for i in range(4)]
+    t = Table.from_function(names, [f"p[{i}]" for i in range(8)],
+                            lambda p: [(((p & 15) * (p >> 4)) >> i & 1).astype(bool) for i in range(8)])
+    net = map_luts(t, minimize(t), 4, LutOptions(objective="depth"))
+    assert net.depth <= shannon_depth(8, 4)
+    for p in range(256):
+        assert net.evaluate(p) == (p & 15) * (p >> 4)

@@ -64,7 +64,7 @@ def merge_networks(nets: Sequence[LutNetwork], pick: Sequence[int], method: str)
 
 
 def shallowest(candidates: Sequence[LutNetwork], supports: Sequence[int],
-               fallback: Callable[[list[int]], LutNetwork | None], options: LutOptions,
+               fallback: Callable[[list[int]], tuple[LutNetwork, set[int]] | None], options: LutOptions,
                tidy: Callable[[LutNetwork], LutNetwork]) -> LutNetwork:
     """The depth-objective network (module docs).
 
@@ -75,8 +75,8 @@ def shallowest(candidates: Sequence[LutNetwork], supports: Sequence[int],
     supports : sequence of int
         Per output, the number of inputs it depends on (for the Shannon bound).
     fallback : callable
-        Given the outputs above their Shannon bound, a network realizing at least those outputs by Shannon trees
-        (other drivers are ignored), or ``None`` when it cannot.
+        Given the outputs above their Shannon bound, a network realizing some of them by Shannon trees and the set
+        of those it realizes (the drivers of all other outputs are placeholders), or ``None`` when it cannot.
     tidy : callable
         Drops dead LUTs and merges equal ones.
     """
@@ -92,10 +92,12 @@ def shallowest(candidates: Sequence[LutNetwork], supports: Sequence[int],
     pick = pick_best()
     over = [j for j in range(m) if (b := shannon_depth(supports[j], k)) is not None and levels[pick[j]][j] > b]
     if over:
-        extra = fallback(over)
-        if extra is not None:
+        got = fallback(over)
+        if got is not None:
+            extra, realized = got
             nets.append(extra)
-            levels.append(output_levels(extra))
+            # the other outputs of the fallback network are placeholders, never to be picked
+            levels.append([lv if j in realized else 1 << 30 for j, lv in enumerate(output_levels(extra))])
             cones.append(cone_sizes(extra))
             pick = pick_best()
     merged = tidy(merge_networks(nets, pick, "+".join(dict.fromkeys(nets[x].method for x in pick)) + "+depth"))

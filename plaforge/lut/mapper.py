@@ -303,7 +303,7 @@ def _depth_pass(sets: OutputSets, net: LutNetwork, cut: LutNetwork | None, opts:
     enumerable = table.n_inputs <= opts.enum_limit
     supports = [sets.support(j).bit_count() if enumerable else table.n_inputs for j in range(m)]
 
-    def fallback(outputs: list[int]) -> LutNetwork | None:
+    def fallback(outputs: list[int]) -> tuple[LutNetwork, set[int]] | None:
         todo = [j for j in outputs if enumerable and supports[j] <= opts.decompose_limit]
         if not todo:
             return None
@@ -318,7 +318,7 @@ def _depth_pass(sets: OutputSets, net: LutNetwork, cut: LutNetwork | None, opts:
             drivers[j] = dec.shannon(u, [table.input_names[i] for i in u.inputs], on, off)
         luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
         raw = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {}, "Shannon")
-        return tidy_network(_resolve_constant_luts(raw), prefix)
+        return tidy_network(_resolve_constant_luts(raw), prefix), set(todo)
 
     return shallowest(candidates, supports, fallback, opts, lambda n: tidy_network(_resolve_constant_luts(n), prefix))
 
