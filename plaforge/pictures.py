@@ -74,7 +74,7 @@ def term_matrix_svg(table: Table, cover: Cover) -> str:
                             'fill="#b5651d"/>')
     body.append(f'<text x="4" y="{height - 8}" {_FONT}>{cover.rows} terms x {len(names)} inputs; dark 1, outlined 0, '
                 "pale: not tested; dots: the outputs a term feeds</text>")
-    return _svg(max(width, 420), height, body, f"product-term matrix, {cover.rows} terms")
+    return _svg(max(width, 520), height, body, f"product-term matrix, {cover.rows} terms")
 
 
 def lut_graph_svg(table: Table, net: LutNetwork) -> str:
