@@ -258,7 +258,7 @@ def test_module_and_check_commands(tmp_path: Path) -> None:
                               "--harness", str(tmp_path / "test_add2.py")])
     assert res.exit_code == 0, res.output
     assert out.is_file() and (tmp_path / "add2.v").is_file() and (tmp_path / "test_add2.py").is_file()
-    assert "module add2_sop(" in (tmp_path / "add2.v").read_text()
+    assert "module add2 (" in (tmp_path / "add2.v").read_text()  # the design name (the spec's stem here)
     res = runner.invoke(cli, ["module", str(spec), "--style", "lut", "-k", "3", "-o", str(tmp_path / "add2_lut.py")])
     assert res.exit_code == 0, res.output
     for art in ("add2_sop.py", "add2_lut.py"):
