@@ -181,9 +181,12 @@ def test_synopsis_names_every_command_option_and_argument():
     for name, rest in synopsis.items():
         cmd = cli.commands[name]  # type: ignore[attr-defined]
         doc_opts = set(re.findall(r"(?<![\w-])(--?[a-z][a-z-]*)", rest))
-        doc_args = [w for w in re.sub(r"\[[^\]]*\]", " ", rest).split()]
+        # An argument is an upper-case word; written alone it is required, alone in brackets (`[COVER]`) optional.
+        doc_args = [(m.group(2) or m.group(1), m.group(1) is None)
+                    for m in re.finditer(r"\[([A-Z][A-Z_]*)\]|\[[^\]]*\]|(?<!\S)([A-Z][A-Z_]*)(?!\S)", rest)
+                    if m.group(1) or m.group(2)]
         options = [p for p in cmd.params if isinstance(p, click.Option) and "--help" not in p.opts]
-        arguments = [p.name.upper() for p in cmd.params if isinstance(p, click.Argument)]
+        arguments = [(p.name.upper(), p.required) for p in cmd.params if isinstance(p, click.Argument)]
         assert doc_args == arguments, name
         for opt in options:
             assert doc_opts & set(opt.opts + opt.secondary_opts), (name, opt.opts)
