@@ -102,7 +102,7 @@ def range_spec(kind: str) -> tuple[str, str]:
     is bit 39 - i) or ``toml`` (one range rule)."""
     lo, hi = RANGE
     if kind == "toml":
-        return (f'[inputs]\na = 40\n[outputs]\ny = 1\n[[rule]]\nwhen = {{ a = "{lo:#x}..{hi:#x}" }}\n'
+        return (f'[inputs]\na = 40\n[outputs]\ny = 1\n[[rule]]\nwhen = {{ a = {{ from = {lo:#x}, to = {hi:#x} }} }}\n'
                 f'set = {{ y = 1 }}\n'), "range.toml"
     cubes = range_cubes(lo, hi, range(40))
     rows = [c.text(40) for c in cubes]

@@ -330,6 +330,12 @@ def _match(value: object, actual: int, width: int) -> bool:
     if isinstance(value, list):
         return any([_match(v, actual, width) for v in value])  # every item, so each is checked to fit
     if isinstance(value, dict):
+        if set(value) == {"from", "to"}:  # "{ from = LOW, to = HIGH }: inclusive range, bounds as for a value"
+            lo, hi = (_number(str(b).lower().replace("_", "")) if isinstance(b, str) else b
+                      for b in (value["from"], value["to"]))
+            if lo > hi or hi >= 2 ** width:
+                raise Invalid("range")
+            return lo <= actual <= hi
         v, mask = value["value"], value["mask"]
         return actual & mask == v
     if isinstance(value, bool):
@@ -339,12 +345,6 @@ def _match(value: object, actual: int, width: int) -> bool:
             raise Invalid("does not fit")
         return actual == value
     s = str(value).lower().replace("_", "")
-    if ".." in s:
-        lo_s, hi_s = s.split("..")
-        lo, hi = _number(lo_s), _number(hi_s)
-        if lo > hi or hi >= 2 ** width:
-            raise Invalid("range")
-        return lo <= actual <= hi
     return _fits(_bits_of(s, width), actual)
 
 

@@ -34,8 +34,8 @@ HEAD = "[inputs]\na = 4\nen = 1\n[outputs]\ny = 1\nz = { width = 2, default = \"
 
 def test_first_matching_rule_wins() -> None:
     text = HEAD + (
-        '[[rule]]\nwhen = { a = "4..7" }\nset = { y = 0 }\n'
-        '[[rule]]\nwhen = { a = "0..9" }\nset = { y = 1, z = 2 }\n'
+        '[[rule]]\nwhen = { a = { from = 4, to = 7 } }\nset = { y = 0 }\n'
+        '[[rule]]\nwhen = { a = { from = 0, to = 9 } }\nset = { y = 1, z = 2 }\n'
     )
     t = parse_design(text, "p.toml")
     # hand-worked: y is 1 on 0..3 and 8..9, 0 on 4..7 (first rule) and by default elsewhere
@@ -44,8 +44,9 @@ def test_first_matching_rule_wins() -> None:
 
 
 @pytest.mark.parametrize(("match", "expected"), [
-    ("5", [5]), ('"0x5"', [5]), ('"3..6"', [3, 4, 5, 6]), ('"0b1x0x"', [8, 9, 12, 13]), ('"0x1"', [1]),
-    ("{ value = 0b0100, mask = 0b0110 }", [4, 5, 12, 13]), ('[1, "10..11", "0b111x"]', [1, 10, 11, 14, 15]),
+    ("5", [5]), ('"0x5"', [5]), ("{ from = 3, to = 6 }", [3, 4, 5, 6]), ('{ from = "0x3", to = 0b110 }', [3, 4, 5, 6]), ('"0b1x0x"', [8, 9, 12, 13]), ('"0x1"', [1]),
+    ("{ value = 0b0100, mask = 0b0110 }", [4, 5, 12, 13]), ('[1, { from = 10, to = 11 }, "0b111x"]', [1, 10, 11, 14, 15]),
+    ("{ from = 7, to = 7 }", [7]),
 ])
 def test_match_forms(match: str, expected: list[int]) -> None:
     t = parse_design(HEAD + f"[[rule]]\nwhen = {{ a = {match} }}\nset = {{ y = 1 }}\n", "m.toml")
@@ -85,7 +86,7 @@ def test_expression_output_with_rule_override_and_dc() -> None:
 def test_expression_uses_only_named_inputs_under_wide_design() -> None:
     # a 40-input design whose expression reads only a 4-bit bus: enumeration covers 2**4 points, not 2**40
     text = ('[inputs]\nbig = 36\nn = 4\n[outputs]\nhit = 1\npar = { width = 1, expr = "popcount(n) & 1" }\n'
-            '[[rule]]\nwhen = { big = "0x1_0000_0000..0xF_FFFF_FFFF" }\nset = { hit = 1 }\n')
+            '[[rule]]\nwhen = { big = { from = 0x1_0000_0000, to = 0xF_FFFF_FFFF } }\nset = { hit = 1 }\n')
     t = parse_design(text, "w.toml")
     assert t.n_inputs == 40
     for n in range(16):

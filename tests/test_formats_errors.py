@@ -27,7 +27,7 @@ cs = 1
 sq = { width = 8, expr = "(addr & 0xF) ** 2" }
 
 [[rule]]
-when = { addr = "0x00..0x3F" }
+when = { addr = { from = 0x00, to = 0x3F } }
 set = { cs = 1 }
 """
 
@@ -70,11 +70,22 @@ CASES: list[tuple[str, str, str]] = [
     ("trunc.toml", TOML_OK[:80], r"trunc\.toml:\d+(:\d+)?: not valid TOML"),
     ("typo.toml", TOML_OK.replace("when = { addr", "when = { adr"), (r"typo\.toml:10:10: unknown port 'adr' \(did you "
                                                                        r"mean 'addr'\?\)")),
-    ("outin.toml", TOML_OK.replace("when = { addr = \"0x00..0x3F\"", "when = { cs = 1"),
+    ("outin.toml", TOML_OK.replace("when = { addr = { from = 0x00, to = 0x3F }", "when = { cs = 1"),
      r"outin\.toml:10:10: 'cs' is an output; 'when' tests inputs only"),
     ("setin.toml", TOML_OK.replace("set = { cs = 1 }", "set = { rw = 1 }"),
      r"setin\.toml:11:9: 'rw' is an input; 'set' assigns outputs only"),
-    ("range.toml", TOML_OK.replace("0x00..0x3F", "0x00..0x1FF"), r"range\.toml:10:10: range end 0x1ff does not fit"),
+    ("range.toml", TOML_OK.replace("to = 0x3F", "to = 0x1FF"), r"range\.toml:10:10: to 511 for 'addr' does not fit: 'addr' "
+                                                                 r"is 8 bits wide \(0\.\.0xff\)"),
+    ("rangefrom.toml", TOML_OK.replace("from = 0x00", 'from = "0x100"'),
+     r"rangefrom\.toml:10:10: from '0x100' for 'addr' does not fit"),
+    ("empty.toml", TOML_OK.replace("from = 0x00", "from = 0x40"),
+     r"empty\.toml:10:10: the range for 'addr' is empty: from 0x40 is above to 0x3f"),
+    ("rangekey.toml", TOML_OK.replace("to = 0x3F", "upto = 0x3F"),
+     r"rangekey\.toml:10:10: unknown key 'upto' in the table matching 'addr' \(did you mean 'to'\?\)"),
+    ("rangehalf.toml", TOML_OK.replace(", to = 0x3F", ""), r"rangehalf\.toml:10:10: the range for 'addr' has no 'to'"),
+    ("oldrange.toml", TOML_OK.replace("{ from = 0x00, to = 0x3F }", '"0x00..0x3F"'),
+     r"oldrange\.toml:10:10: '0x00\.\.0x3F' for 'addr' is not a match; write a range as an inline table with both "
+     r"bounds, \{ from = 0x00, to = 0x3F \}"),
     ("value.toml", TOML_OK.replace("set = { cs = 1 }", "set = { cs = 2 }"), (r"value\.toml:11:9: value 2 \(0x2\) does "
                                                                              r"not fit: 'cs' is 1 bit wide")),
     ("width.toml", TOML_OK.replace("addr = 8", "addr = 0"), r"width\.toml:2:1: input 'addr' width is 0"),

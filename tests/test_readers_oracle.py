@@ -187,7 +187,14 @@ def _match_value(draw, width: int, in_list: bool = False) -> str:
     if kind == "range":
         lo = draw(st.integers(0, top))
         hi = draw(st.integers(lo, top))
-        return f'"{_num(draw, lo, width)}..{_num(draw, hi, width)}"'
+        if not draw(st.integers(0, 15)):  # now and then an empty range or a bound that does not fit
+            lo, hi = (hi + 1, lo) if draw(st.booleans()) else (lo, hi + top + 1)
+        # docs/formats.md: bounds are integers or the number strings other cells accept, in either order of keys
+        lo_s, hi_s = (_num(draw, b, width) for b in (lo, hi))
+        lo_s, hi_s = (f'"{b}"' if draw(st.booleans()) else b for b in (lo_s, hi_s))
+        if draw(st.booleans()):
+            return f"{{ to = {hi_s}, from = {lo_s} }}"
+        return f"{{ from = {lo_s}, to = {hi_s} }}"
     if kind == "pattern":
         text = _pattern(draw, width)
         if len(text) > 3 and draw(st.booleans()):  # docs/formats.md writes "0b1xxx_xxxx_xxxx": '_' groups digits

@@ -10,7 +10,7 @@ match
     What a rule requires of an input port (all of a rule's matches must hold):
 
     * an integer (``0x3F``, ``12``, ``true``) or a string holding one (``"0xC000"``, ``"0b1010"``): that value;
-    * ``"LO..HI"``: the inclusive range, written in decimal, ``0x`` hex or ``0b`` binary (``"0xC000..0xC0FF"``);
+    * ``{ from = LOW, to = HIGH }``: the inclusive range, bounds as for a value (``{ from = 0xC000, to = 0xC0FF }``);
     * a pattern ``"0b1x0x"`` (binary digits, ``x`` or ``-`` for "either") or ``"0xC0xx"`` (hex digits, ``x`` for four
       free bits); digits missing on the left are 0, as for a number;
     * ``{ value = V, mask = M }``: the bits set in ``M`` equal those of ``V``;
@@ -49,7 +49,7 @@ File layout
     square = { width = 8, expr = "(addr & 0xF) ** 2" }
 
     [[rule]]                 # as many as needed; first match wins per output
-    when = { addr = "0x0000..0x3FFF", rw = 1 }
+    when = { addr = { from = 0x0000, to = 0x3FFF }, rw = 1 }
     set = { rom_cs = 1, bank = 0 }
 
 A rule may also carry ``note = "..."`` (ignored). A rule without ``when`` matches every point.
@@ -84,6 +84,8 @@ _TOP_KEYS = ("design", "inputs", "outputs", "rule")
 _DESIGN_KEYS = ("default", "name", "description", "note")
 _OUTPUT_KEYS = ("width", "default", "expr", "dc", "note")
 _RULE_KEYS = ("when", "set", "note")
+_RANGE_KEYS = ("from", "to")
+_MASK_KEYS = ("value", "mask")
 _DC_WORDS = ("dc", "-", "x")
 _CHUNK = 1 << 16
 
@@ -257,22 +259,7 @@ class _Reader:
                 out += self.match_cubes(v, name, indices, where)
             return list(dict.fromkeys(out))
         if isinstance(value, dict):
-            if set(value) != {"value", "mask"}:
-                raise self.err(where, f"a masked match for {name!r} needs exactly the keys value and mask")
-            v, msk = value["value"], value["mask"]
-            for label, x in (("value", v), ("mask", msk)):
-                if isinstance(x, str):
-                    x = _parse_int(x)
-                if isinstance(x, bool) or not isinstance(x, int) or x < 0 or x > top:
-                    raise self.err(where, f"{label} {value[label]!r} for {name!r} does not fit; {fits}")
-                if label == "value":
-                    v = x
-                else:
-                    msk = x
-            if v & ~msk:
-                raise self.err(where, f"value {v:#x} for {name!r} sets bits outside mask {msk:#x}; "
-                                      f"clear them or widen the mask")
-            return [field_cube(v, msk, indices)]
+            return self.table_match(value, name, indices, where)
         if isinstance(value, bool):
             value = int(value)
         if isinstance(value, int):
@@ -286,15 +273,9 @@ class _Reader:
                                       f"'when' instead")
             if ".." in s:
                 lo_s, _, hi_s = s.partition("..")
-                lo, hi = _parse_int(lo_s), _parse_int(hi_s)
-                if lo is None or hi is None:
-                    raise self.err(where, f"range {value!r} for {name!r}: expected LOW..HIGH with numbers in decimal,"
-                                          f" 0x hex or 0b binary, e.g. \"0xC000..0xC0FF\"")
-                if lo > hi:
-                    raise self.err(where, f"range {value!r} for {name!r} is empty (LOW > HIGH); write it low first")
-                if hi > top:
-                    raise self.err(where, f"range end {hi:#x} does not fit: {fits}")
-                return range_cubes(lo, hi, indices)
+                raise self.err(where, f"{value!r} for {name!r} is not a match; write a range as an inline table "
+                                      f"with both bounds, {{ from = {lo_s.strip() or 'LOW'}, to = "
+                                      f"{hi_s.strip() or 'HIGH'} }}")
             pat = _pattern(s, w)
             if pat is not None:
                 care, val = pat
@@ -304,11 +285,53 @@ class _Reader:
             n = _parse_int(s)
             if n is None:
                 raise self.err(where, f"cannot read {value!r} as a match for {name!r}; expected a number, "
-                                      f"\"LOW..HIGH\", a pattern like \"0b1x0x\", or {{ value = .., mask = .. }}")
+                                      f"a pattern like \"0b1x0x\", {{ from = .., to = .. }} or {{ value = .., mask = .. }}")
             if n > top:
                 raise self.err(where, f"value {value!r} does not fit: {fits}")
             return [field_cube(n, top, indices)]
         raise self.err(where, f"cannot use {value!r} as a match for {name!r}; expected a number, a range or a pattern")
+
+    def table_match(self, value: dict[str, Any], name: str, indices: tuple[int, ...],
+                    where: tuple[int | None, int | None]) -> list[Cube]:
+        """An inline-table match: ``{ from = LOW, to = HIGH }`` (inclusive range) or ``{ value = V, mask = M }``."""
+        top = (1 << len(indices)) - 1
+        fits = f"{name!r} is {len(indices)} bit{'s' if len(indices) > 1 else ''} wide (0..{top:#x})"
+        kind = "range" if set(value) & set(_RANGE_KEYS) else "masked match" if set(value) & set(_MASK_KEYS) else ""
+        keys = _RANGE_KEYS if kind == "range" else _MASK_KEYS
+        extra = sorted(set(value) - set(keys))
+        if not value:
+            raise self.err(where, f"empty table matching {name!r}; expected {{ from = LOW, to = HIGH }} or "
+                                  f"{{ value = V, mask = M }}")
+        if not kind or extra:
+            bad = extra[0] if extra else min(value)
+            raise self.err(where, f"unknown key {bad!r} in the table matching {name!r}"
+                                  f"{_suggest(bad, list(_RANGE_KEYS + _MASK_KEYS))}; expected "
+                                  f"{{ from = LOW, to = HIGH }} or {{ value = V, mask = M }}")
+        missing = [k for k in keys if k not in value]
+        if missing:
+            raise self.err(where, f"the {kind} for {name!r} has no {missing[0]!r}; write "
+                                  + ("{ from = LOW, to = HIGH }" if kind == "range" else "{ value = V, mask = M }"))
+        got: dict[str, int] = {}
+        for key in keys:
+            x = value[key]
+            n = _parse_int(x) if isinstance(x, str) else None if isinstance(x, bool) else x
+            if not isinstance(n, int):
+                raise self.err(where, f"{key} {x!r} for {name!r} is not a number; expected an integer such as 12, "
+                                      f"0x3F or 0b1010 (or a string holding one)")
+            if not 0 <= n <= top:
+                raise self.err(where, f"{key} {x!r} for {name!r} does not fit: {fits}")
+            got[key] = n
+        if kind == "range":
+            lo, hi = got["from"], got["to"]
+            if lo > hi:
+                raise self.err(where, f"the range for {name!r} is empty: from {lo:#x} is above to {hi:#x}; "
+                                      f"write the lower bound in from")
+            return range_cubes(lo, hi, indices)
+        v, msk = got["value"], got["mask"]
+        if v & ~msk:
+            raise self.err(where, f"value {v:#x} for {name!r} sets bits outside mask {msk:#x}; "
+                                  f"clear them or widen the mask")
+        return [field_cube(v, msk, indices)]
 
     def set_value(self, value: object, name: str, width: int, where: tuple[int | None, int | None],
                   what: str = "value") -> tuple[int, int]:
@@ -353,7 +376,7 @@ class _Reader:
             when = rule.get("when", {})
             if not isinstance(when, dict):
                 raise self.err(self.rule_where(r, "when"), f"rule {r + 1}: 'when' must be a table like "
-                                                           f"{{ addr = \"0x00..0x0F\" }}")
+                                                           f"{{ addr = {{ from = 0x00, to = 0x0F }} }}")
             if "set" not in rule or not isinstance(rule["set"], dict) or not rule["set"]:
                 raise self.err(self.rule_where(r), f"rule {r + 1} sets nothing; add set = {{ output = value }}")
             cubes = [Cube(0, 0)]
