@@ -226,3 +226,6 @@ def test_time_limit_gives_valid_cover_and_bound_or_limit_error() -> None:
     # published lower bound is unknown; the solver cannot prove this 11-input random table in 3 s (measured: 30 s
     # still leave a gap), so the cover is reported as not proven, with a bound below it
     assert not cover.optimal and 0 < cover.lower_bound < cover.rows
+    from plaforge.minimize import cover_summary
+
+    assert cover_summary(cover)["stopped_early"] == ["time limit"]

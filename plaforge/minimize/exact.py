@@ -218,6 +218,8 @@ def solve_exact(f: Sequence[Sequence[Cube]], on: Sequence[Sequence[Cube]], n: in
         if picked2 is not None and sum(pb.literals[p] for p in picked2) <= sum(pb.literals[p] for p in picked):
             picked, outputs = picked2, outputs2
     stats.append(("independent_bound", ess + indep))
+    if not proven:  # the solver stops short of a proof only at the deadline
+        stats.append(("stopped", "time limit"))
     return pb, ExactResult(tuple(pb.chosen) + tuple(picked), outputs, proven, proven and lit_opt, lb, tuple(stats))
 
 
