@@ -7,19 +7,28 @@ import json
 from click.testing import CliRunner
 
 from plaforge.cli import cli
-from plaforge.bundled import sample_path
+from plaforge.bundled import sample_names, sample_path
 
 
 def test_demo_writes_and_checks_every_artifact(tmp_path):
     out = tmp_path / "demo"
     res = CliRunner().invoke(cli, ["demo", "-o", str(out)])
     assert res.exit_code == 0, res.output + res.stderr
-    stem = "kestrel8_decoder"  # the sample's [design] name
+    names = sample_names()
+    assert len(names) >= 7
+    for name in names:  # one subfolder per sample, named after the file, with its report and checked artifacts
+        folder = out / name.rsplit(".", 1)[0]
+        assert (folder / "report.md").is_file() and (folder / "report.html").is_file(), name
+        assert f"  {folder / 'report.html'}" in res.output.splitlines(), name  # printed where to look
+        assert len(list(folder.glob("*.pla"))) == 1 and len(list(folder.glob("*_lut.v"))) == 1, name
+    stem = "kestrel8_decoder"  # the memory-map sample's [design] name
     for name in (f"{stem}.pla", f"{stem}.luts.json", f"{stem}_sop.py", f"{stem}_lut.py", f"{stem}.v",
-                 f"{stem}_lut.v", f"test_{stem}.py", "report.md", "report.html"):
-        assert (out / name).is_file(), name
+                 f"{stem}_lut.v", f"test_{stem}.py"):
+        assert (out / "memory_map" / name).is_file(), name
     assert "FAIL" not in res.output
-    assert res.output.count("all 7 outputs pass") == 6  # cover, network, both modules and both Verilog files
+    assert res.output.count("; 6 checks pass;") == len(names)  # cover, network, both modules, both Verilog files
+    wide = next(ln for ln in res.output.splitlines() if ln.startswith("  wide_address_map.toml:"))
+    assert "heuristic, too large for the exact path" in wide  # 32 inputs: the exact path refuses, the demo goes on
     assert "Caution" in res.output
 
 

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import pytest
-from sympy import Integer, Rational, floor
+from sympy import Integer, Rational, floor, pi, sin
 
 from plaforge.bundled import sample_path
 from plaforge.core.cube import Cube, cube_list_contains
@@ -106,6 +106,52 @@ def test_gamma_sample_matches_sympy() -> None:
             # outside reference: sympy evaluates 255 * (level/63)**2.2 exactly-then-numerically, rounded half up
             ref = int(floor(Integer(255) * Rational(level, 63) ** Rational(11, 5) + Rational(1, 2)))
             assert got == ref >> night, (level, night)
+
+
+def test_sine_rom_sample_matches_sympy() -> None:
+    t = read_spec(sample_path("sine_rom.toml"))
+    assert t.n_inputs == 6 and t.n_outputs == 8
+    for phase in range(64):
+        # outside reference: sympy's exact sine, 127.5 + 127.5 sin(2 pi phase / 64), rounded half up
+        ref = int(floor(Rational(255, 2) + Rational(255, 2) * sin(2 * pi * Rational(phase, 64)) + Rational(1, 2)))
+        assert _bus(t, "sample", phase) == ref, phase
+
+
+def _vend_step(state: int, coin: int, cancel: int, taken: int, service: int) -> tuple[int, int, int, int, int]:
+    """The Marrowby controller as its sample's header describes it, written out state by state: (next, dispense,
+    change, busy, service_lamp). Snacks cost 15; coin 1 is 5 credits, coin 2 is 10; change counts 5-credit coins."""
+    busy = int(state in (1, 2, 3))
+    if state == 0:
+        nxt = 4 if service else {1: 1, 2: 2}.get(coin, 0)
+        return nxt, 0, 0, busy, 0
+    if state in (1, 2):
+        credit = 5 * state
+        if cancel:
+            return 0, 0, state, busy, 0
+        total = credit + 5 * coin
+        if total >= 15:
+            return 3, 0, (total - 15) // 5, busy, 0
+        return total // 5, 0, 0, busy, 0
+    if state == 3:
+        return (0 if taken else 3), 1, 0, busy, 0
+    return (4 if service else 0), 0, 0, busy, 1
+
+
+def test_vending_controller_sample_follows_its_description() -> None:
+    t = read_spec(sample_path("vending_controller.toml"))
+    assert t.n_inputs == 8 and t.n_outputs == 8
+    outs = ("next", "dispense", "change", "busy", "service_lamp")
+    for p in range(1 << 8):
+        state, coin, cancel, taken, service = p & 7, p >> 3 & 3, p >> 5 & 1, p >> 6 & 1, p >> 7 & 1
+        got = tuple(_bus(t, o, p) for o in outs)
+        if state >= 5:  # never entered: everything don't-care
+            assert got == (None,) * 5, p
+            continue
+        want = _vend_step(state, coin, cancel, taken, service)
+        if coin == 3:  # never reported: next state and change don't-care
+            assert (got[0], got[2]) == (None, None) and (got[1], got[3], got[4]) == (want[1], want[3], want[4]), p
+            continue
+        assert got == want, (p, state, coin, cancel, taken, service)
 
 
 def test_memory_map_sample() -> None:

@@ -27,7 +27,8 @@ from plaforge.formats import read_spec
 
 CASES_PER_FORMAT = 1200
 SEEDS = {".pla": ["arbiter.pla"], ".csv": ["segment_display.csv"],
-         ".toml": ["gamma.toml", "memory_map.toml", "wide_address_map.toml"]}
+         ".toml": ["gamma.toml", "memory_map.toml", "wide_address_map.toml", "vending_controller.toml",
+                   "sine_rom.toml"]}
 
 
 def _read_once(path: Path) -> str:
