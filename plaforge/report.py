@@ -7,6 +7,9 @@ from .verify.report import format_vector
 
 __all__ = ["CAUTION", "table_summary"]
 
+#: Most inputs for which ``table_summary`` counts points (it enumerates them).
+POINTS_LIMIT = 20
+
 CAUTION = (
     "Caution: combinational outputs can glitch while inputs change; register them or prove the hazard harmless. "
     "Close timing in the device flow, follow the device maker's documentation, and have the logic reviewed before "
@@ -15,38 +18,35 @@ CAUTION = (
 
 
 def _fmt_sets(table: Table, j: int) -> str:
-    n = table.n_inputs
-    on, dc, off = table.on_cubes(j), table.dc_cubes(j), table.off_cubes(j)
+    """The sets of output ``j`` as its rows gave them (cube counts; the implicit set is "the rest")."""
     from .listing import plural
 
-    return (f"ON {plural(len(on), 'cube')}, DC {plural(len(dc), 'cube')}, OFF {plural(len(off), 'cube')}"
-            if n > 0 else "")
+    sets = zip(("ON", "DC", "OFF"), (table.on[j], table.dc[j], table.off[j]))
+    return ", ".join(f"{label} {'the rest' if s is None else plural(len(s), 'cube')}" for label, s in sets)
 
 
 def table_summary(table: Table) -> str:
-    """Ports, per-output support and ON/DC/OFF sizes (as cube counts, and point counts when enumerable)."""
+    """Ports, per-output support and ON/DC/OFF sizes as given (cube counts; point counts up to
+    :data:`POINTS_LIMIT` inputs), computed from the rows as given without complementing them."""
+    from .core.sets import given_point_counts
+    from .listing import bit_ranges
+
     lines = [f"spec {table.source or '(in memory)'}: {table.n_inputs} inputs, {table.n_outputs} outputs"]
     lines.append("  inputs:  " + ", ".join(f"{b.name}" + ("" if b.scalar else f"[{b.width}]")
                                          for b in table.input_buses))
     lines.append("  outputs: " + ", ".join(f"{b.name}" + ("" if b.scalar else f"[{b.width}]")
                                          for b in table.output_buses))
-    enumerable = table.n_inputs <= 20
     width = max((len(n) for n in table.output_names), default=4)
+    order = [table.input_names[i] for bus in table.input_buses for i in reversed(bus.indices)]
     for j, name in enumerate(table.output_names):
-        sup = table.support_names(j)
+        sup = set(table.support_names(j))
         extra = ""
-        if enumerable:
-            from .core.table import popcount_bits
-
-            on_b, dc_b = table.truth(j)
-            n_on, n_dc = popcount_bits(on_b), popcount_bits(dc_b)
-            extra = f"; points ON {n_on}, DC {n_dc}, OFF {(1 << table.n_inputs) - n_on - n_dc}"
-        from .listing import bit_ranges
-
-        order = [table.input_names[i] for bus in table.input_buses for i in reversed(bus.indices)]
-        shown = ", ".join(bit_ranges([x for x in order if x in set(sup)]))
+        if table.n_inputs <= POINTS_LIMIT:
+            n_on, n_dc, n_off = given_point_counts(table, j)
+            extra = f"; points ON {n_on}, DC {n_dc}, OFF {n_off}"
+        shown = ", ".join(bit_ranges([x for x in order if x in sup]))
         lines.append(f"  {name:<{width}}  depends on {len(sup)}: {shown or '(constant)'}")
-        lines.append(f"  {'':<{width}}  {_fmt_sets(table, j)}{extra}")
+        lines.append(f"  {'':<{width}}  {_fmt_sets(table, j) if table.n_inputs else ''}{extra}")
     return "\n".join(lines)
 
 

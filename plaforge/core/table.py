@@ -25,7 +25,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .cube import Cube, SharpTooLarge, complement, cut_by_complement, drop_inputs, merge_identical, sharp
+from .cube import Cube, SharpTooLarge, complement, cut_by_complement, merge_identical, sharp
 from .errors import EnumerationLimit, SizeLimit
 
 __all__ = [
@@ -39,6 +39,7 @@ __all__ = [
     "pack_bool",
     "point_bits",
     "popcount_bits",
+    "signature_regions",
     "unpack_bits",
 ]
 
@@ -270,7 +271,10 @@ class Table:
         if key in self._cache:
             return self._cache[key]
         try:
-            on, off = self.on_cubes(j), self.off_cubes(j)
+            if self.dc[j] is None and self.on[j] is not None and self.off[j] is not None:
+                on, off = self.on[j], self.off[j]  # as given: DC is the rest, so nothing needs trimming
+            else:
+                on, off = self.on_cubes(j), self.off_cubes(j)
         except SizeLimit:
             # ON or OFF rows overlap the don't-cares too much to separate: use the rows as given. Points in both
             # then count as ON (or OFF), so the support found may keep an input a don't-care would let go.
@@ -286,8 +290,7 @@ class Table:
                 dropped |= bit
                 continue
             trial = dropped | bit
-            a, b = drop_inputs(on, trial), drop_inputs(off, trial)
-            if not _lists_intersect(a, b):
+            if not _lists_intersect(on, off, trial):
                 dropped = trial
         full = (1 << self.n_inputs) - 1
         res = full & ~dropped
@@ -404,30 +407,50 @@ class FunctionSets:
         output 0, to be re-tagged); regions where both masks are 0 are left out. In order of the signature
         ``(on_mask, dc_mask)``. At most 64 outputs.
         """
-        if self.m > 64:
-            raise ValueError(f"signature regions need at most 64 outputs, not {self.m}")
-        on_sig = np.zeros(1 << self.n, dtype=np.uint64)
-        dc_sig = np.zeros(1 << self.n, dtype=np.uint64)
         on, dc = self.point_arrays()
-        for j in range(self.m):
-            bit = np.uint64(1 << j)
-            on_sig[on[j]] |= bit
-            dc_sig[dc[j]] |= bit
-        uniq, inverse = np.unique(np.stack([on_sig, dc_sig], axis=1), axis=0, return_inverse=True)
-        inverse = inverse.reshape(-1)
-        return tuple(
-            (on_m, dc_m, tuple(bool_array_to_cubes(inverse == k, self.n)))
-            for k, (on_m, dc_m) in enumerate(uniq.tolist())
-            if on_m or dc_m
-        )
+        return signature_regions(self.n, on, dc)
+
+
+def signature_regions(n: int, on: Sequence[np.ndarray], dc: Sequence[np.ndarray]) -> tuple[
+        tuple[int, int, tuple[Cube, ...]], ...]:
+    """The regions where the output signature is constant, as ``(on_mask, dc_mask, cubes)``, from per-output
+    boolean point arrays (see :attr:`plaforge.core.table.FunctionSets.regions`). At most 64 outputs."""
+    m = len(on)
+    if m > 64:
+        raise ValueError(f"signature regions need at most 64 outputs, not {m}")
+    on_sig = np.zeros(1 << n, dtype=np.uint64)
+    dc_sig = np.zeros(1 << n, dtype=np.uint64)
+    for j in range(m):
+        bit = np.uint64(1 << j)
+        on_sig[on[j]] |= bit
+        dc_sig[dc[j]] |= bit
+    uniq, inverse = np.unique(np.stack([on_sig, dc_sig], axis=1), axis=0, return_inverse=True)
+    inverse = inverse.reshape(-1)
+    return tuple(
+        (on_m, dc_m, tuple(bool_array_to_cubes(inverse == k, n)))
+        for k, (on_m, dc_m) in enumerate(uniq.tolist())
+        if on_m or dc_m
+    )
 
 
 # ---------------------------------------------------------------------------------------------------------------
-def _lists_intersect(a: Sequence[Cube], b: Sequence[Cube]) -> bool:
-    for x in a:
-        for y in b:
-            if (x.value ^ y.value) & x.care & y.care == 0:
-                return True
+def _lists_intersect(a: Sequence[Cube], b: Sequence[Cube], dropped: int = 0) -> bool:
+    """Whether a cube of ``a`` meets a cube of ``b`` once the inputs in ``dropped`` are ignored (vectorized in
+    blocks up to 63 inputs; single points compared as a set)."""
+    keep = ~dropped
+    full = max((c.care for c in (*a, *b)), default=0)
+    if all(c.care == full for c in a) and all(c.care == full for c in b):
+        return not {c.value & keep for c in a}.isdisjoint(c.value & keep for c in b)
+    if full.bit_length() > 63:
+        return any((x.value ^ y.value) & x.care & y.care & keep == 0 for x in a for y in b)
+    bc = np.array([c.care & keep for c in b], dtype=np.uint64)
+    bv = np.array([c.value for c in b], dtype=np.uint64)
+    for k in range(0, len(a), 256):
+        part = a[k:k + 256]
+        ac = np.array([c.care & keep for c in part], dtype=np.uint64)[:, None]
+        av = np.array([c.value for c in part], dtype=np.uint64)[:, None]
+        if (((av ^ bv) & ac & bc) == 0).any():
+            return True
     return False
 
 

@@ -1,37 +1,67 @@
 """Running a minimizer in a child process, so a crash, a hang or an exhausted memory becomes a clear error.
 
 The compiled minimizer keeps global configuration and may end the whole process on some internal errors, so the
-heuristic path calls it through :func:`run_isolated`. What the parent makes of the child's end (exit statuses in
-docs/conventions.md):
+heuristic path calls it through :class:`Isolated` (several may run at once, one per starting cover). A child gets
+an address-space limit (``RLIMIT_AS``) of what it inherits from the parent plus ``memory_mb`` megabytes, so a run
+that grows without bound fails on its own instead of exhausting the machine. What the parent makes of the child's
+end (exit statuses in docs/conventions.md):
 
 =================================================  =====================================================
 the child ...                                      raises
 =================================================  =====================================================
 does not answer within the time limit              :class:`~plaforge.core.errors.TimeLimit`, naming
                                                    ``--time-limit``
-raises ``MemoryError`` or is killed by ``SIGKILL``  :class:`~plaforge.core.errors.SizeLimit`; no option raises
-(the kernel's answer to an exhausted memory)       that limit, and the message says so
+raises ``MemoryError``, or dies while its memory   :class:`~plaforge.core.errors.SizeLimit`: "exceeded N MB",
+was within 1/8 of its limit (a compiled library    naming ``--memory-limit``
+fails its allocation)
+is killed by ``SIGKILL`` (the kernel's answer to   :class:`~plaforge.core.errors.SizeLimit`; the machine's
+an exhausted machine)                              memory, which no option raises
 dies otherwise, or raises anything else            :class:`~plaforge.core.errors.InternalError`
 =================================================  =====================================================
+
+The parent samples the child's address-space size (``/proc/PID/statm``, where there is one) while it waits.
 """
 
 from __future__ import annotations
 
 import multiprocessing
+import os
 import signal
+import time
 from collections.abc import Callable
 from typing import Any
 
 from ..core.errors import InternalError, SizeLimit, TimeLimit
 
-__all__ = ["run_isolated"]
+__all__ = ["Isolated", "run_isolated"]
 
 #: The signal the kernel's out-of-memory killer sends (absent on platforms without it).
 _SIGKILL = getattr(signal, "SIGKILL", 0)
+#: Seconds between two samples of a child's memory.
+_SAMPLE = 0.05
 
 
-def _child(conn: Any, fn: Callable[..., Any], args: tuple) -> None:  # pragma: no cover - runs in the child
+def _address_space(pid: int | str = "self") -> int:
+    """Bytes of address space of process ``pid`` (0 where /proc is missing)."""
     try:
+        with open(f"/proc/{pid}/statm", encoding="ascii") as fh:
+            return int(fh.read().split()[0]) * os.sysconf("SC_PAGE_SIZE")
+    except (OSError, ValueError, IndexError):
+        return 0
+
+
+def _child(conn: Any, fn: Callable[..., Any], args: tuple, memory_mb: int | None) -> None:  # pragma: no cover
+    try:
+        if memory_mb is not None:
+            import resource
+
+            base = _address_space()
+            if base:
+                hard = resource.getrlimit(resource.RLIMIT_AS)[1]
+                soft = base + (memory_mb << 20)
+                if hard != resource.RLIM_INFINITY:
+                    soft = min(soft, hard)
+                resource.setrlimit(resource.RLIMIT_AS, (soft, hard))
         conn.send(("ok", fn(*args)))
     except MemoryError as exc:
         conn.send(("memory", f"MemoryError: {exc}"))
@@ -41,28 +71,93 @@ def _child(conn: Any, fn: Callable[..., Any], args: tuple) -> None:  # pragma: n
         conn.close()
 
 
-def _out_of_memory(what: str, detail: str) -> SizeLimit:
-    return SizeLimit(
-        f"{what} ran out of memory on this input ({detail}); no option raises this limit: it is the memory of the "
-        "machine"
-    )
-
-
-def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str) -> Any:
-    """Call ``fn(*args)`` in a child process and return its result.
-
-    Uses ``fork`` where available (a few milliseconds), ``spawn`` elsewhere. ``fn`` and its result must pickle.
+class Isolated:
+    """``fn(*args)`` running in a child process (``fork`` where available, else ``spawn``; ``fn``, its arguments
+    and its result must pickle).
 
     Parameters
     ----------
-    fn : callable
-        What to run in the child.
-    args : tuple
-        Its arguments.
-    timeout : float
-        Seconds to wait for the answer.
+    fn, args : callable, tuple
+        What to run.
     what : str
         Names the work in error messages (``"the heuristic minimizer"``).
+    memory_mb : int or None
+        Megabytes the child may grow beyond what it inherits; ``None``: no limit of its own.
+    """
+
+    def __init__(self, fn: Callable[..., Any], args: tuple, what: str, memory_mb: int | None = None) -> None:
+        methods = multiprocessing.get_all_start_methods()
+        ctx = multiprocessing.get_context("fork" if "fork" in methods else "spawn")
+        self.what = what
+        self.memory_mb = memory_mb
+        self.started = time.monotonic()
+        self._recv, send = ctx.Pipe(duplex=False)
+        self._proc = ctx.Process(target=_child, args=(send, fn, args, memory_mb), daemon=True)
+        self._proc.start()
+        send.close()
+        self._base = _address_space(self._proc.pid or 0)
+        self._peak = self._base
+
+    def wait(self, timeout: float) -> bool:
+        """Wait up to ``timeout`` seconds for the answer; whether it (or the child's end) has come."""
+        end = time.monotonic() + max(0.0, timeout)
+        while True:
+            if self._recv.poll(min(_SAMPLE, max(0.0, end - time.monotonic()))):
+                return True
+            self._peak = max(self._peak, _address_space(self._proc.pid or 0))
+            if time.monotonic() >= end:
+                return False
+
+    def result(self, timeout: float, limit_note: str = "") -> Any:
+        """The answer, waiting up to ``timeout`` seconds; the child is ended either way.
+
+        Raises :class:`TimeLimit` (``limit_note`` is added to its message), :class:`SizeLimit` or
+        :class:`InternalError` as the module docs say.
+        """
+        try:
+            if not self.wait(timeout):
+                raise TimeLimit(f"{self.what} did not finish within {timeout:g} s{limit_note}", "--time-limit")
+            try:
+                status, payload = self._recv.recv()
+            except EOFError:
+                self._proc.join(5)
+                raise self._died() from None
+        finally:
+            self.stop()
+        if status == "memory":
+            raise self._exceeded(payload)
+        if status != "ok":
+            raise InternalError(f"{self.what} failed: {payload}")
+        return payload
+
+    def stop(self) -> None:
+        """End the child (if still running) and release its pipe."""
+        if self._proc.is_alive():
+            self._proc.kill()
+        self._proc.join(5)
+        self._recv.close()
+
+    def _exceeded(self, detail: str) -> SizeLimit:
+        if self.memory_mb is None:
+            return SizeLimit(f"{self.what} ran out of memory on this input ({detail}); no option raises this limit: "
+                             "it is the memory of the machine")
+        return SizeLimit(f"{self.what} exceeded {self.memory_mb} MB of memory ({detail}); raise --memory-limit "
+                         "if the machine has more", "--memory-limit")
+
+    def _died(self) -> Exception:
+        code = self._proc.exitcode
+        if code == -_SIGKILL:
+            return SizeLimit(f"{self.what} ran out of memory on this input (the system killed it with SIGKILL); no "
+                             "option raises this limit: it is the memory of the machine")
+        if self.memory_mb is not None and self._base and self._peak >= self._base + (self.memory_mb << 20) * 7 // 8:
+            return self._exceeded(f"it ended with status {code} at {self._peak >> 20} MB of address space")
+        return InternalError(f"{self.what} crashed (exit status {code}) on this input; the cover could not be "
+                             "computed")
+
+
+def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str,
+                 memory_mb: int | None = None) -> Any:
+    """Call ``fn(*args)`` in a child process (:class:`Isolated`) and return its result within ``timeout`` seconds.
 
     Raises
     ------
@@ -73,31 +168,4 @@ def run_isolated(fn: Callable[..., Any], args: tuple, timeout: float, what: str)
     plaforge.core.errors.InternalError
         The child crashed or ``fn`` raised.
     """
-    methods = multiprocessing.get_all_start_methods()
-    ctx = multiprocessing.get_context("fork" if "fork" in methods else "spawn")
-    recv, send = ctx.Pipe(duplex=False)
-    proc = ctx.Process(target=_child, args=(send, fn, args), daemon=True)
-    proc.start()
-    send.close()
-    try:
-        if not recv.poll(timeout):
-            raise TimeLimit(f"{what} did not finish within {timeout:g} s", "--time-limit")
-        try:
-            status, payload = recv.recv()
-        except EOFError:
-            proc.join(5)
-            if proc.exitcode == -_SIGKILL:
-                raise _out_of_memory(what, "the system killed it with SIGKILL") from None
-            raise InternalError(
-                f"{what} crashed (exit status {proc.exitcode}) on this input; the cover could not be computed"
-            ) from None
-    finally:
-        if proc.is_alive():
-            proc.kill()
-        proc.join(5)
-        recv.close()
-    if status == "memory":
-        raise _out_of_memory(what, payload)
-    if status != "ok":
-        raise InternalError(f"{what} failed: {payload}")
-    return payload
+    return Isolated(fn, args, what, memory_mb).result(timeout)

@@ -4,62 +4,80 @@ Positional cube notation
 ------------------------
 pyeda's low-level ``espresso(ninputs, noutputs, cover, intype)`` takes a set of rows ``(inpart, outpart)``. The
 input part holds one integer per input: ``1`` = the literal ``x'`` (input must be 0), ``2`` = ``x`` (must be 1),
-``3`` = no literal. The output part holds one entry per output: ``1`` = the row belongs to that output's ON set
-(F-type), ``2`` = to its don't-care set (D-type), ``0`` = neither. A plaforge :class:`~plaforge.core.cube.Cube` with
-``care``/``value`` masks maps to it bit by bit, so nothing is ever enumerated: a 40-input table given as cubes is
-fed as its cubes.
+``3`` = no literal. The output part holds one entry per output: ``1`` = ON, ``2`` = don't-care when don't-care rows
+are given (``intype`` F|D), ``0`` = OFF when OFF rows are given (F|R); otherwise ``0`` under F|D and ``2`` under F|R
+say nothing. A plaforge :class:`~plaforge.core.cube.Cube` maps to it bit by bit, so nothing is ever enumerated.
 
-Rows are built from the ON and DC cubes of all outputs at once, with identical input parts merged across
-outputs (one row ``(c, outputs where c is ON)`` instead of one row per output), so the minimizer sees the
-multi-output function and shares product terms between outputs. Under the ``per-output`` cost each output is
-minimized alone and identical terms are merged only afterwards (they still count once per output).
+What the minimizer is fed
+-------------------------
+The sets as the rows gave them (:func:`plaforge.core.sets.given_sets`): ON with don't-cares (``.type f``/``fd``:
+intype F|D, the minimizer works out OFF) or ON with OFF (``fr``/``fdr``: F|R, it works out the don't-cares), rows
+with identical input parts merged into one row over all outputs. Nothing is complemented or subtracted in Python on
+the way in. Tables whose outputs leave different sets implicit, or the ON set, are fed the separated sets of
+:meth:`plaforge.core.table.Table.cover_sets` instead (F|D). Under the ``per-output`` cost each output is minimized
+alone and identical terms are merged only afterwards.
 
-Starting covers
----------------
-The minimizer is a local descent, so where it starts matters. Under the shared cost two starts are tried and the
-better result kept (fewer rows, then fewer literals): the Table's own cubes as above, and, for tables of at most
-:data:`SIGNATURE_LIMIT` inputs, the regions of constant output signature (which outputs are ON and which DC) written
-as cubes, each row carrying the whole signature. Up to the same width each start is followed by one more descent
-from its own result.
+Column order
+------------
+The minimizer's work (and memory) can depend on the order of the columns. Its columns are therefore sorted by a key
+computed from the rows alone (inputs tested by more rows first, then inputs more often tested at 1, then spec
+order) and the result mapped back, so permuting a spec's columns does not change the work beyond such ties.
 
-Input sets
+Effort
+------
+The minimizer is a local descent, so where it starts matters. ``fast``: one run from the rows above (start A).
+``normal``: A in one child process; at once, in a second child (the machine's other core), up to
+:data:`SIGNATURE_LIMIT` inputs and 64 outputs, start B, the regions of constant output signature written as cubes,
+each carrying the whole signature; then one more descent from each result (fed back with the same don't-care or OFF
+rows). Everything after A is dropped when A already meets the lower bound, and is given only until
+``max(EXTRA_SHARE * tA, EXTRA_FLOOR)`` seconds after A's answer (``tA``: A's own time); unfinished work is stopped
+and the best finished result kept (fewer rows, then fewer literals). ``high``: all of it with descents repeated while
+they help, bounded only by the time limit.
+
+Time limit
 ----------
-The cubes come from :meth:`plaforge.core.table.Table.cover_sets`, computed once per table and phase choice: the ON
-sets (OFF sets for outputs realized in complement) cut clear of the don't-cares, the DC sets, their multi-output
-merged lists and the signature regions.
+Unless ``scale_time_limit`` is cleared (the CLI clears it when ``--time-limit`` is given), the limit is the larger
+of ``time_limit`` and ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds (rows: the cubes given), and a
+``TimeLimit`` message says which rule set it.
 
 Isolation and trust
 -------------------
-The compiled minimizer keeps global configuration (``set_config``), which is reset to its defaults before every
-call, and it may end the whole process on some internal errors. By default it therefore runs in a child process
-with a time limit (:func:`plaforge.minimize.child.run_isolated`: a timeout is a ``TimeLimit``, running out of memory
-a ``SizeLimit``, a crash an ``InternalError``). Its answer is re-verified against the Table
-(:func:`plaforge.minimize.result.verify_cover`); one that fails is an ``InternalError``.
+The compiled minimizer keeps global configuration (``set_config``), reset to its defaults before every call, and
+may end the whole process on some internal errors. It therefore runs in child processes
+(:class:`plaforge.minimize.child.Isolated`: a timeout is a ``TimeLimit``, growing past ``memory_limit`` megabytes a
+``SizeLimit`` naming ``--memory-limit``, a crash an ``InternalError``). Its answer is re-verified against the Table
+(:func:`plaforge.minimize.result.verify_given`); one that fails is an ``InternalError``.
 """
 
 from __future__ import annotations
 
+import time
 from collections.abc import Sequence
+from dataclasses import dataclass, replace
 from types import MappingProxyType
 
 from ..core.cube import Cover, Cube, merge_identical
 from ..core.errors import InternalError
+from ..core.sets import GivenSets, given_sets, signature_regions
 from ..core.table import FunctionSets, Table
-from .child import run_isolated
+from .child import Isolated
 from .covering import quick_lower_bound
 from .options import MinimizeOptions
+from .progress import Progress
 from .result import checked_cover, sort_cubes, term_count
 
-__all__ = [
-    "MINIMIZER_DEFAULTS",
-    "decode_row",
-    "encode_cube",
-    "heuristic_cubes",
-    "minimize_heuristic",
-]
+__all__ = ["MINIMIZER_DEFAULTS", "decode_row", "encode_cube", "heuristic_cubes", "minimize_heuristic"]
 
-#: Most inputs for which the signature-region starting cover is also tried (it builds packed truth tables).
+#: Most inputs for which start B (signature regions) is tried (it enumerates the points).
 SIGNATURE_LIMIT = 16
+#: ``normal`` effort: work after start A may run until this share of A's time has passed since A's answer ...
+EXTRA_SHARE = 0.1
+#: ... or this many seconds, whichever is longer.
+EXTRA_FLOOR = 0.2
+#: Seconds the lower bound may take (computed while the first start runs).
+BOUND_SECONDS = 0.5
+#: Default time limit: at least ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds.
+SCALE_DIVISOR = 500
 
 #: pyeda's own defaults for the compiled minimizer's global switches (restored before every call).
 MINIMIZER_DEFAULTS: MappingProxyType[str, bool] = MappingProxyType({
@@ -74,27 +92,40 @@ MINIMIZER_DEFAULTS: MappingProxyType[str, bool] = MappingProxyType({
 
 #: A row of the compiled minimizer: input part, output part (positional cube notation, see the module docs).
 Row = tuple[tuple[int, ...], tuple[int, ...]]
-#: One call of the compiled minimizer: ``(inputs, outputs, rows, has_dc)``.
-Job = tuple[int, int, set[Row], bool]
 
 
-def encode_cube(cube: Cube, n: int) -> tuple[int, ...]:
-    """Input part of ``cube`` in positional cube notation (1 = ``x'``, 2 = ``x``, 3 = no literal)."""
+@dataclass(frozen=True)
+class Job:
+    """One problem for the compiled minimizer: ``kind`` ``"fd"`` (F|D) or ``"fr"`` (F|R), columns permuted by
+    ``order`` (column ``k`` is input ``order[k]``)."""
+
+    n: int
+    m: int
+    kind: str
+    rows: frozenset[Row]
+    order: tuple[int, ...]
+
+
+def encode_cube(cube: Cube, n: int, order: Sequence[int] | None = None) -> tuple[int, ...]:
+    """Input part of ``cube`` in positional cube notation (1 = ``x'``, 2 = ``x``, 3 = no literal), column ``k``
+    holding input ``order[k]`` (identity by default)."""
     care, value = cube.care, cube.value
-    return tuple((2 if value >> i & 1 else 1) if care >> i & 1 else 3 for i in range(n))
+    cols = range(n) if order is None else order
+    return tuple((2 if value >> i & 1 else 1) if care >> i & 1 else 3 for i in cols)
 
 
-def decode_row(inpart: Sequence[int], outpart: Sequence[int]) -> Cube:
-    """A Cube from a positional-notation row; outputs are those whose entry is 1."""
+def decode_row(inpart: Sequence[int], outpart: Sequence[int], order: Sequence[int] | None = None) -> Cube:
+    """A Cube from a positional-notation row (column ``k`` is input ``order[k]``); outputs are those marked 1."""
     care = value = 0
-    for i, v in enumerate(inpart):
+    for k, v in enumerate(inpart):
+        i = k if order is None else order[k]
         if v == 1:
             care |= 1 << i
         elif v == 2:
             care |= 1 << i
             value |= 1 << i
         elif v != 3:
-            raise InternalError(f"minimizer returned input entry {v!r} at column {i}; expected 1, 2 or 3")
+            raise InternalError(f"minimizer returned input entry {v!r} at column {k}; expected 1, 2 or 3")
     outputs = 0
     for j, v in enumerate(outpart):
         if v == 1:
@@ -102,110 +133,250 @@ def decode_row(inpart: Sequence[int], outpart: Sequence[int]) -> Cube:
     return Cube(care, value, outputs)
 
 
-def _rows(n: int, m: int, joint_on: Sequence[Cube], joint_dc: Sequence[Cube]) -> set[Row]:
-    """Rows from multi-output ON and DC cubes (identical input parts already merged), ON and DC rows apart."""
-    rows: set[Row] = set()
-    for cubes, mark in ((joint_on, 1), (joint_dc, 2)):
-        for c in cubes:
-            rows.add((encode_cube(c, n), tuple(mark if c.outputs >> j & 1 else 0 for j in range(m))))
-    return rows
+def column_order(n: int, cubes: Sequence[Cube]) -> tuple[int, ...]:
+    """Inputs tested by more cubes first, then inputs more often tested at 1, then spec order."""
+    cares, ones = [0] * n, [0] * n
+    for c in cubes:
+        for i in range(n):
+            if c.care >> i & 1:
+                cares[i] += 1
+                ones[i] += c.value >> i & 1
+    return tuple(sorted(range(n), key=lambda i: (-cares[i], -ones[i], i)))
 
 
-def _signature_rows(fs: FunctionSets) -> set[Row]:
-    """Rows from the regions where the output signature (ON/DC per output) is constant, each row carrying the whole
-    signature (``1`` ON, ``2`` DC): the joint view of the function."""
-    n, m = fs.n, fs.m
-    rows: set[Row] = set()
-    for on_m, dc_m, cubes in fs.regions:
-        if not on_m:
-            continue
-        outpart = tuple(1 if on_m >> j & 1 else 2 if dc_m >> j & 1 else 0 for j in range(m))
+def _job(n: int, m: int, kind: str, marked: Sequence[tuple[Sequence[Cube], int]]) -> Job:
+    """A job from cube lists each with the mark its outputs get (1 ON, 2 DC, 0 OFF); identical input parts merged
+    into one row, a don't-care mark winning over ON."""
+    fill = 2 if kind == "fr" else 0
+    parts: dict[tuple[int, int], list[int]] = {}
+    for cubes, mark in marked:
         for c in cubes:
-            rows.add((encode_cube(c, n), outpart))
+            entry = parts.setdefault((c.care, c.value), [fill] * m)
+            outs = c.outputs
+            while outs:
+                low = outs & -outs
+                j = low.bit_length() - 1
+                if not (mark == 1 and entry[j] == 2 and kind == "fd"):
+                    entry[j] = mark
+                outs ^= low
+    order = column_order(n, [Cube(care, value) for care, value in parts])
+    rows = frozenset((encode_cube(Cube(care, value), n, order), tuple(e)) for (care, value), e in parts.items())
+    return Job(n, m, kind, rows, order)
+
+
+def given_job(gs: GivenSets) -> Job:
+    """Start A for sets as given: ON rows with DC rows (F|D) or with OFF rows (F|R)."""
+    other = 2 if gs.kind == "fd" else 0
+    return _job(gs.n, gs.m, gs.kind, [(c, 1) for c in gs.on] + [(c, other) for c in gs.other])
+
+
+def sets_job(fs: FunctionSets) -> Job:
+    """Start A for separated sets (F|D)."""
+    return _job(fs.n, fs.m, "fd", [(fs.joint_on, 1), (fs.joint_dc, 2)])
+
+
+def signature_job(n: int, m: int, regions: Sequence[tuple[int, int, tuple[Cube, ...]]], order: tuple[int, ...]
+                  ) -> Job:
+    """Start B: each region of constant signature as rows carrying the whole signature (``1`` ON, ``2`` DC), with
+    the don't-cares also as rows of their own (F|D)."""
+    rows: set[Row] = set()
+    for on_m, dc_m, cubes in regions:
+        parts = [tuple(1 if on_m >> j & 1 else 2 if dc_m >> j & 1 else 0 for j in range(m))] if on_m else []
         if dc_m:
-            dc_part = tuple(2 if dc_m >> j & 1 else 0 for j in range(m))
-            for c in cubes:
-                rows.add((encode_cube(c, n), dc_part))
-    for on_m, dc_m, cubes in fs.regions:
-        if dc_m and not on_m:
-            dc_part = tuple(2 if dc_m >> j & 1 else 0 for j in range(m))
-            for c in cubes:
-                rows.add((encode_cube(c, n), dc_part))
-    return rows
+            parts.append(tuple(2 if dc_m >> j & 1 else 0 for j in range(m)))
+        for c in cubes:
+            inp = encode_cube(c, n, order)
+            rows.update((inp, part) for part in parts)
+    return Job(n, m, "fd", frozenset(rows), order)
 
 
-def _minimizer_jobs(jobs: list[Job]) -> list[list[Row]]:
-    """Run the compiled minimizer on each job ``(n, m, rows, has_dc)``; results as sorted row lists.
-
-    Each job is minimized, then (up to :data:`SIGNATURE_LIMIT` inputs, where it is cheap) its result is fed back
-    once with the same don't-care rows (a second descent from a prime, irredundant start often drops a few more
-    rows); the better of the two is kept.
-    """
-    from pyeda.boolalg.espresso import DTYPE, FTYPE, espresso, set_config
-
-    out = []
-    for n, m, rows, has_dc in jobs:
-        if not any(1 in outpart for _, outpart in rows):
-            out.append([])
-            continue
-        kind = FTYPE | DTYPE if has_dc else FTYPE
-        set_config(**MINIMIZER_DEFAULTS)
-        first = sorted(espresso(n, m, rows, intype=kind))
-        if n > SIGNATURE_LIMIT:
-            out.append(first)
-            continue
-        dc_rows = {(inp, tuple(2 if v == 2 else 0 for v in outp)) for inp, outp in rows if 2 in outp}
-        set_config(**MINIMIZER_DEFAULTS)
-        second = sorted(espresso(n, m, set(first) | dc_rows, intype=kind))
-        out.append(second if _row_cost(second) < _row_cost(first) else first)
-    return out
-
-
-def _row_cost(rows: Sequence[Row]) -> tuple[int, int]:
+def _cost(rows: Sequence[Row]) -> tuple[int, int]:
     return len(rows), sum(1 for inp, _ in rows for v in inp if v != 3)
 
 
-def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
-    """Minimized cubes for ``fs`` under ``options.cost``: jointly (shared terms) or each output alone, identical
-    terms merged, in :func:`plaforge.minimize.result.sort_cubes` order (not yet verified)."""
-    n, m = fs.n, fs.m
-    per_output = options.cost == "per-output"
-    jobs: list[Job] = []
-    if per_output:
-        for j in range(m):
-            one_on = merge_identical(c.with_outputs(1) for c in fs.on[j])
-            one_dc = merge_identical(c.with_outputs(1) for c in fs.dc[j])
-            jobs.append((n, 1, _rows(n, 1, one_on, one_dc), bool(fs.dc[j])))
-    else:
-        jobs.append((n, m, _rows(n, m, fs.joint_on, fs.joint_dc), any(fs.dc)))
-        if n <= SIGNATURE_LIMIT and m <= 64:
-            jobs.append((n, m, _signature_rows(fs), any(fs.dc)))
+def _espresso(job: Job, start: Sequence[Row] | None) -> list[Row]:
+    """One run of the compiled minimizer on ``job``, or a descent from ``start`` (a cover of the job) fed with the
+    job's don't-care (F|D) or OFF (F|R) rows."""
+    from pyeda.boolalg.espresso import DTYPE, FTYPE, RTYPE, espresso, set_config
+
+    if not any(1 in out for _, out in job.rows):
+        return []
+    rows: set[Row] | frozenset[Row] = job.rows
+    if start is not None:
+        if job.kind == "fd":
+            keep = {(i, tuple(2 if v == 2 else 0 for v in o)) for i, o in job.rows if 2 in o}
+            rows = keep | set(start)
+        else:
+            keep = {(i, tuple(0 if v == 0 else 2 for v in o)) for i, o in job.rows if 0 in o}
+            rows = keep | {(i, tuple(1 if v == 1 else 2 for v in o)) for i, o in start}
+    set_config(**MINIMIZER_DEFAULTS)
+    return sorted(espresso(job.n, job.m, rows, intype=FTYPE | (DTYPE if job.kind == "fd" else RTYPE)))
+
+
+def _descend(job: Job, start: Sequence[Row] | None, repeat: int) -> list[Row]:
+    """Run (or descend from ``start``), then up to ``repeat`` more descents while each one lowers the cost."""
+    best = _espresso(job, start)
+    for _ in range(repeat):
+        nxt = _espresso(job, best)
+        if _cost(nxt) >= _cost(best):
+            break
+        best = nxt
+    return best
+
+
+def _per_output(jobs: Sequence[Job], repeat: int) -> list[list[Row]]:
+    return [_descend(job, None, repeat) for job in jobs]
+
+
+def _call(fn: object, args: tuple, options: MinimizeOptions) -> Isolated | object:
+    """Start ``fn(*args)`` in a child process, or run it here when ``options.isolate`` is off."""
     if options.isolate:
-        results = run_isolated(_minimizer_jobs, (jobs,), options.time_limit, "the heuristic minimizer")
-    else:
-        results = _minimizer_jobs(jobs)
-    if not per_output:
-        results = [min(results, key=_row_cost)]
-    cubes: list[Cube] = []
-    for k, res in enumerate(results):
-        for inpart, outpart in res:
-            c = decode_row(inpart, outpart)
-            if per_output:
-                c = c.with_outputs((1 << k) if c.outputs else 0)
-            if c.outputs:
-                cubes.append(c)
-    return sort_cubes(merge_identical(cubes))
+        return Isolated(fn, args, "the heuristic minimizer", options.memory_limit)  # type: ignore[arg-type]
+    return _Done(fn(*args))  # type: ignore[operator]
+
+
+class _Done:
+    """A result computed in this process, with :class:`Isolated`'s waiting interface."""
+
+    def __init__(self, value: object) -> None:
+        self.value = value
+
+    def wait(self, timeout: float) -> bool:
+        return True
+
+    def result(self, timeout: float, limit_note: str = "") -> object:
+        return self.value
+
+    def stop(self) -> None:
+        pass
+
+
+def time_limit(options: MinimizeOptions, n: int, m: int, given: int) -> tuple[float, str]:
+    """The heuristic's time limit and, when the table set it, the note a ``TimeLimit`` message adds."""
+    if not options.scale_time_limit:
+        return options.time_limit, ""
+    scaled = (n + m) * given / SCALE_DIVISOR
+    if scaled <= options.time_limit:
+        return options.time_limit, ""
+    return scaled, (f" (the default limit for {given} rows of {n} inputs and {m} outputs: (inputs + outputs) x rows "
+                    f"/ {SCALE_DIVISOR} s)")
+
+
+def _run_shared(job: Job, second: Job | None, bound_of: object, options: MinimizeOptions, limit: float,
+                note: str, progress: Progress) -> tuple[list[Row], int]:
+    """Start A (and B), then descents, as ``options.effort`` allows (module docs); the best result and the lower
+    bound ``bound_of()``, computed here while the starts run."""
+    t0 = time.monotonic()
+    deadline = t0 + limit
+    effort = options.effort
+    repeat = 1 << 20 if effort == "high" else 0
+    a = _call(_descend, (job, None, 0), options)
+    b = _call(_descend, (second, None, 0), options) if second is not None and effort != "fast" else None
+    progress.stage("start A: the rows as given" + (", start B: signature regions" if b else ""))
+    results: list[tuple[Job, list[Row]]] = []
+    bound = bound_of()  # type: ignore[operator]
+    try:
+        results.append((job, a.result(deadline - time.monotonic(), note)))  # type: ignore[union-attr]
+        if effort == "fast" or len(results[0][1]) <= bound:
+            return results[0][1], bound
+        t_a = time.monotonic() - t0
+        extra_end = deadline if effort == "high" else min(deadline, time.monotonic() + max(EXTRA_SHARE * t_a,
+                                                                                         EXTRA_FLOOR))
+        progress.update(rows_a=len(results[0][1]))
+        if b is not None and b.wait(extra_end - time.monotonic()):  # type: ignore[union-attr]
+            results.append((second, b.result(0)))  # type: ignore[union-attr, arg-type]
+            progress.update(rows_b=len(results[-1][1]))
+        descents = [(j, _call(_descend, (j, r, repeat), options)) for j, r in results
+                    if time.monotonic() < extra_end]
+        progress.stage("one more descent from each result" if effort == "normal" else "descents while they help")
+        for j, d in descents:
+            if d.wait(extra_end - time.monotonic()):  # type: ignore[union-attr]
+                results.append((j, d.result(0)))  # type: ignore[union-attr]
+                progress.update(rows_descent=len(results[-1][1]))
+            else:
+                d.stop()  # type: ignore[union-attr]
+    finally:
+        for pending in (a, b):
+            if pending is not None:
+                pending.stop()  # type: ignore[union-attr]
+    return min(results, key=lambda jr: _cost(jr[1]))[1], bound
+
+
+def _decode(job: Job, rows: Sequence[Row], output: int | None = None) -> list[Cube]:
+    cubes = []
+    for inpart, outpart in rows:
+        c = decode_row(inpart, outpart, job.order)
+        if output is not None:
+            c = c.with_outputs((1 << output) if c.outputs else 0)
+        if c.outputs:
+            cubes.append(c)
+    return cubes
+
+
+def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, regions_of: object,
+               bound_of: object, given: int, options: MinimizeOptions) -> tuple[list[Cube], int]:
+    """The best cover found and the lower bound (``bound_of()``, computed while the first start runs)."""
+    limit, note = time_limit(options, n, m, given)
+    with Progress(options.progress, "heuristic") as progress:
+        progress.stage(f"{given} rows, {n} inputs, {m} outputs; time limit {limit:.0f} s")
+        if per_output is not None:
+            repeat = 0 if options.effort == "fast" else 1 if options.effort == "normal" else 1 << 20
+            run = _call(_per_output, (per_output, repeat), options)
+            bound = bound_of()  # type: ignore[operator]
+            res = run.result(limit, note)  # type: ignore[union-attr]
+            return sort_cubes(merge_identical(c for k, (job, rows) in enumerate(zip(per_output, res))
+                                              for c in _decode(job, rows, k))), bound
+        second = None
+        if options.effort != "fast" and n <= SIGNATURE_LIMIT and m <= 64:
+            second = signature_job(n, m, regions_of(), first.order)  # type: ignore[operator]
+        rows, bound = _run_shared(first, second, bound_of, options, limit, note, progress)
+    return sort_cubes(merge_identical(_decode(first, rows))), bound
+
+
+def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
+    """Minimized cubes for separated sets ``fs`` under ``options`` (cost, effort; ``time_limit`` as given, never
+    scaled: callers pass their share of a deadline), identical terms merged, in
+    :func:`plaforge.minimize.result.sort_cubes` order (not yet verified)."""
+    options = replace(options, scale_time_limit=False)
+    per = _per_output_jobs(fs.n, "fd", fs.on, fs.dc) if options.cost == "per-output" else None
+    given = sum(map(len, fs.on)) + sum(map(len, fs.dc))
+    cubes, _ = _minimized(fs.n, fs.m, sets_job(fs), per, lambda: fs.regions, lambda: 0, given, options)
+    return cubes
+
+
+def _per_output_jobs(n: int, kind: str, ons: Sequence[Sequence[Cube]], others: Sequence[Sequence[Cube]]
+                     ) -> list[Job]:
+    """One single-output job per output (the ``per-output`` cost)."""
+    mark = 2 if kind == "fd" else 0
+    return [_job(n, 1, kind, [([c.with_outputs(1) for c in on], 1), ([c.with_outputs(1) for c in other], mark)])
+            for on, other in zip(ons, others)]
 
 
 def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0) -> Cover:
     """Heuristic cover of ``table`` (outputs in ``inverted`` realized in complement), verified.
 
-    ``lower_bound`` is :func:`plaforge.minimize.covering.quick_lower_bound` (budgeted, any width); ``optimal`` is
-    true only when the cover meets that bound, which then proves it minimum.
+    ``lower_bound`` is :func:`plaforge.minimize.covering.quick_lower_bound` where the don't-cares are known as cubes
+    (1 when they are implicit, as under ``fr``, and some output has an ON cube); ``optimal`` is true only when the
+    cover meets it.
     """
-    fs = table.cover_sets(inverted)
-    cubes = heuristic_cubes(fs, options)
     per_output = options.cost == "per-output"
+    gs = given_sets(table, inverted)
+    if gs is None:
+        fs = table.cover_sets(inverted)
+        n, m, first, given = fs.n, fs.m, sets_job(fs), sum(map(len, fs.on)) + sum(map(len, fs.dc))
+        ons, others, kind = fs.on, fs.dc, "fd"
+        regions = lambda: fs.regions
+    else:
+        n, m, first, given = gs.n, gs.m, given_job(gs), gs.given
+        ons, others, kind = gs.on, gs.other, gs.kind
+        regions = lambda: signature_regions(n, *gs.point_arrays())
+
+    def bound_of() -> int:
+        if kind == "fd":
+            return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, BOUND_SECONDS)
+        return 1 if any(ons) else 0  # implicit don't-cares: a bound would have to complement them
+
+    per = _per_output_jobs(n, kind, ons, others) if per_output else None
+    cubes, bound = _minimized(n, m, first, per, regions, bound_of, given, options)
     count = term_count(cubes, per_output)
-    bound = quick_lower_bound(fs, per_output)
-    return checked_cover(table, cubes, options, inverted, "heuristic", count <= bound, bound)
+    return checked_cover(table, cubes, options, inverted, "heuristic", count <= bound, bound, given=gs)
