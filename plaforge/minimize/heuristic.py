@@ -58,8 +58,8 @@ from types import MappingProxyType
 
 from ..core.cube import Cover, Cube, merge_identical
 from ..core.errors import InternalError
-from ..core.sets import GivenSets, given_sets, signature_regions
-from ..core.table import FunctionSets, Table
+from ..core.sets import GivenSets, given_sets
+from ..core.table import FunctionSets, Table, signature_regions
 from .child import Isolated
 from .covering import quick_lower_bound
 from .options import MinimizeOptions
