@@ -45,7 +45,7 @@ from itertools import combinations
 
 import numpy as np
 
-__all__ = ["Decomposer", "NetworkBuilder", "Universe", "shannon_depth", "shannon_selects"]
+__all__ = ["Decomposer", "GiveUp", "NetworkBuilder", "Universe", "shannon_depth", "shannon_selects"]
 
 
 REUSE_SCAN = 40  # LUTs tried per reuse step (largest support first, newest first)
@@ -110,6 +110,10 @@ class OverBudget(Exception):
     """Decomposing one output needed more LUTs than allowed (the caller falls back to another method)."""
 
 
+class GiveUp(Exception):
+    """The whole network has reached ``NetworkBuilder.node_cap`` LUTs: an optional pass that cannot win stops."""
+
+
 @dataclass
 class Node:
     """A LUT under construction: fan-ins, INIT and (when small enough) its global function."""
@@ -146,6 +150,7 @@ class NetworkBuilder:
     by_struct: dict[tuple[tuple[str, ...], int], str] = field(default_factory=dict)
     index: dict[str, int] = field(default_factory=dict)
     budget_end: int | None = None
+    node_cap: int | None = None
     work: int = 0
     work_end: int | None = None
     deadline: float | None = None
@@ -232,6 +237,8 @@ class NetworkBuilder:
             return self.by_struct[key]
         if self.budget_end is not None and len(self.nodes) >= self.budget_end:
             raise OverBudget("more than the LUT budget for one output")
+        if self.node_cap is not None and len(self.nodes) >= self.node_cap:
+            raise GiveUp(f"{self.node_cap} LUTs built")
         name = f"{self.prefix}{len(self.nodes)}"
         supports = [self.support(s) for s in inputs]
         truth: np.ndarray | None = None

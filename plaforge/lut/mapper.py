@@ -2,9 +2,14 @@
 
 Pipeline
 --------
-0. The inputs are put in a canonical order derived from the function (:mod:`plaforge.lut.canon`), so the result
-   does not depend on the spec's column order; for tables of at most ``TWO_ORDER_LIMIT`` inputs the reverse of
-   that order is mapped too and the better network kept. Fan-ins are listed in the spec's order at the end.
+0. The first candidate is the mapping in the spec's own column order at ``k`` (the mapper's path before the
+   canonical order; every output over all the inputs its sets mention whenever that is decomposable). Unless it
+   already meets the count lower bound or its decomposition cost more than ``EXTRA_PASS_WORK`` array elements
+   (each further pass would cost about as much), the inputs are also put in a canonical order derived from the
+   function (:mod:`plaforge.lut.canon`) and, for tables of at most ``TWO_ORDER_LIMIT`` inputs, its reverse, and
+   those are mapped too; the best network is kept. So the count never exceeds the spec-order candidate's, and for
+   tables cheap enough to map more than once it never exceeds the canonical order's whatever the column order
+   (the spec's order can only make it smaller). Fan-ins are listed in the spec's order at the end.
 1. Per output, its support ``S_j`` (:meth:`plaforge.table.Table.support`: don't-cares used greedily to drop
    inputs). Constants and plain inputs need no LUT; a complemented input is one 1-input LUT (an inverter).
 2. Outputs that one function can serve (equal, or equal up to their don't-cares) are merged into one.
@@ -17,11 +22,12 @@ Pipeline
    (:mod:`plaforge.lut.cuts`).
 4. When ``options.remap`` is set, the whole network is remapped by cuts (depth-optimal labels, then area
    recovery), and the better network by ``options.objective`` is kept.
-5. Steps 1-4 run for ``k`` and, for tables of at most ``SMALLER_K_LIMIT`` inputs, for ``k - 1``, ``k - 2``, ...
-   down to 3, stopping at the first size whose network has more than ``SMALLER_K_GIVE_UP`` times the LUTs of the
-   best so far (a k'-LUT network is a k-LUT network, so a larger k does not give a larger network than the sizes
-   tried); every output mapped from the cover alone is one more candidate. The best by ``options.objective`` is
-   kept.
+5. With those extra passes, steps 1-4 also run for ``k - 1``, ``k - 2``, ... down to 3 in every order tried,
+   for tables of at most ``SMALLER_K_LIMIT`` inputs, stopping at the first size whose network has (or whose
+   decomposition reaches) more than ``SMALLER_K_GIVE_UP`` times the LUTs of the best so far (a k'-LUT network is a
+   k-LUT network). Every output mapped from the cover alone is one more candidate (for the area objective only
+   when the count is above its bound, some output was decomposed and the cover has at most ``COVER_AREA_LIMIT``
+   literals). The best by ``options.objective`` is kept.
 6. ``objective="depth"``: per output the shallowest realization, with a Shannon multiplexer tree for outputs
    above the Shannon bound, then area recovery that never deepens an output (:mod:`plaforge.lut.depth`).
 7. Fan-ins a LUT ignores are dropped, equal LUTs merged (structural hashing), dead LUTs removed, LUTs renamed
@@ -43,7 +49,7 @@ from ..core.errors import InternalError, TimeLimit
 from ..core.network import Lut, LutNetwork
 from ..core.table import Table
 from .bounds import OutputSets, essential_inputs, lower_bounds
-from .decompose import Decomposer, NetworkBuilder, OverBudget, Pending
+from .decompose import Decomposer, GiveUp, NetworkBuilder, OverBudget, Pending
 from .options import LutOptions
 from .points import POINT_LIMIT, PointSets, wrong_outputs
 
@@ -175,7 +181,10 @@ SMALLER_K_LIMIT = 10
 SMALLER_K_GIVE_UP = 1.5
 TWO_ORDER_LIMIT = 12
 MENTIONED_SLACK = 4  # inputs beyond the support worth keeping for their don't-cares
+EXTRA_PASS_WORK = 1 << 24  # decomposition work (array elements) of the first candidate above which no other
+# order or LUT size is tried: each would cost about as much again
 COVER_CANDIDATE_LIMIT = 4000  # literals; larger covers are mapped by cuts only for outputs that need it
+COVER_AREA_LIMIT = 500  # literals; the same for the area objective
 
 
 def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
@@ -186,6 +195,15 @@ def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
     if table.n_inputs <= min(SMALLER_K_LIMIT, opts.enum_limit):
         return list(range(k, min(3, k) - 1, -1))
     return [k]
+
+
+WORK_PIVOT = 16  # supports below this many inputs get the work budget doubled per missing input
+
+
+def _work_budget(size: int, opts: LutOptions) -> int:
+    """Work budget of one output (group) of ``size`` support inputs: ``opts.work_budget``, doubled for every input
+    below WORK_PIVOT (small supports are cheap per LUT, so only wide ones need the bound for time; 0: none)."""
+    return opts.work_budget << max(0, WORK_PIVOT - size) if opts.work_budget else 0
 
 
 def _decomposable(size: int, opts: LutOptions) -> bool:
@@ -199,12 +217,16 @@ def _past(deadline: float | None) -> bool:
     return deadline is not None and time.monotonic() > deadline
 
 
-def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: str,
-            deadline: float | None = None) -> LutNetwork:
-    """Steps 1-4 of the module docs at one LUT size (no bounds, no check)."""
+def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: str, deadline: float | None = None,
+            previous: bool = False, node_cap: int | None = None) -> tuple[LutNetwork, int] | None:
+    """Steps 1-4 of the module docs at one LUT size (no bounds, no check), and the decomposition's work (array
+    elements). ``previous``: every output is decomposed over all the inputs its sets mention whenever that is
+    decomposable (the mapper's choice before the canonical order; otherwise only up to MENTIONED_SLACK inputs
+    beyond the support). ``None`` once the decomposition has built ``node_cap`` LUTs (a pass that cannot win)."""
     table = sets.table
     builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@t"),
                              global_limit=max(opts.decompose_limit, 1), deadline=deadline)
+    builder.node_cap = node_cap
     dec = Decomposer(builder, k, budget=opts.bound_set_budget, beam=opts.beam)
     m = table.n_outputs
     if table.n_inputs > opts.enum_limit:
@@ -225,7 +247,8 @@ def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: st
         # greedy support is used when they are too many (or many more than the support: sparse rows)
         mentioned = sets.mentioned(j)
         wider = mentioned.bit_count() - sizes[j]
-        mask = mentioned if wider <= MENTIONED_SLACK and _decomposable(mentioned.bit_count(), opts) else supports[j]
+        use = _decomposable(mentioned.bit_count(), opts) and (previous or wider <= MENTIONED_SLACK)
+        mask = mentioned if use else supports[j]
         sup = tuple(i for i in range(table.n_inputs) if mask >> i & 1)
         on, off = sets.local(j, sup)
         for x, (outs, gsup, gon, goff) in enumerate(groups):
@@ -246,7 +269,8 @@ def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: st
         sigs = [table.input_names[i] for i in u.inputs]
         before = len(builder.nodes)
         builder.budget_end = before + opts.lut_budget if opts.lut_budget else None
-        builder.work_end = builder.work + opts.work_budget if opts.work_budget else None
+        budget = _work_budget(len(sup), opts)
+        builder.work_end = builder.work + budget if budget else None
         try:
             signal = dec.realize(u, sigs, on, off)
         except OverBudget:
@@ -254,6 +278,8 @@ def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: st
             builder.rollback(before)
             wide.extend(outs)
             continue
+        except GiveUp:
+            return None
         finally:
             builder.budget_end = builder.work_end = None
         for j in outs:
@@ -272,7 +298,7 @@ def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: st
         alt = remap_network(net, opts)
         if _objective_key(opts.objective)(alt) < _objective_key(opts.objective)(net):
             net = alt
-    return tidy_network(_resolve_constant_luts(net), prefix)
+    return tidy_network(_resolve_constant_luts(net), prefix), builder.work
 
 
 def _cover_network(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str,
@@ -378,41 +404,61 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
     from .canon import canonical_order, permute_cover, permute_table
 
     prefix = _prefix(table.input_names)
-    canon = canonical_order(table) if table.n_inputs <= opts.enum_limit else tuple(range(table.n_inputs))
-    orders = [canon]
-    if table.n_inputs <= TWO_ORDER_LIMIT and canon[::-1] != canon:
-        orders.append(canon[::-1])
     key = _objective_key(opts.objective)
     deadline = None if opts.time_limit is None else time.monotonic() + opts.time_limit
-    best: tuple[LutNetwork, OutputSets, Cover] | None = None
-    for order in orders:
-        if best is not None and _past(deadline):
-            break
-        ctable, ccover = permute_table(table, order), permute_cover(cover, order)
-        csets = OutputSets(ctable, opts.enum_limit)
-        here: LutNetwork | None = None
-        for kk in _sizes_tried(ctable, k, opts):
-            if here is not None and _past(deadline):
+    points = PointSets(table) if table.n_inputs <= min(POINT_LIMIT, opts.enum_limit) else None
+    bounds = lower_bounds(table, k, opts.enum_limit, points)
+    # the first candidate is the mapper's path before the canonical order: the spec's order at k
+    identity = tuple(range(table.n_inputs))
+    sets0 = OutputSets(table, opts.enum_limit)
+    first = _map_at(sets0, cover, k, opts, prefix, deadline, previous=True)
+    assert first is not None  # no node cap
+    best: tuple[LutNetwork, OutputSets, Cover] = (first[0], sets0, cover)
+    at_bound = first[0].count <= bounds["count"] and (opts.objective == "area" or first[0].depth <= bounds["depth"])
+    if not at_bound and first[1] <= EXTRA_PASS_WORK and not _past(deadline):
+        canon = canonical_order(table) if table.n_inputs <= opts.enum_limit else identity
+        orders = [identity, canon]
+        if table.n_inputs <= TWO_ORDER_LIMIT:
+            orders.append(canon[::-1])
+        for order in dict.fromkeys(orders):
+            if _past(deadline):
                 break
-            cand = _map_at(csets, ccover, kk, opts, prefix, deadline)
-            cand = LutNetwork(k, cand.input_names, cand.output_names, cand.luts, cand.drivers, {},
-                              cand.method + ("" if kk == k else f" (k={kk})"))
-            if here is not None and cand.count > SMALLER_K_GIVE_UP * here.count:
-                break  # smaller LUTs only get worse from here on
-            if here is None or key(cand) < key(here):
-                here = cand
-        assert here is not None
-        if best is None or key(here) < key(best[0]):
-            best = (here, csets, ccover)
-    assert best is not None
+            if order == identity:
+                ctable, ccover, csets = table, cover, sets0
+            else:
+                ctable, ccover = permute_table(table, order), permute_cover(cover, order)
+                csets = OutputSets(ctable, opts.enum_limit)
+            here: LutNetwork | None = first[0] if order == identity else None
+            for kk in _sizes_tried(ctable, k, opts):
+                if order == identity and kk == k:
+                    continue  # the first candidate
+                if here is not None and _past(deadline):
+                    break
+                # smaller LUTs stop at the first size over SMALLER_K_GIVE_UP times the best of this order
+                cap = int(SMALLER_K_GIVE_UP * here.count) + 1 if here is not None and kk < k else None
+                got = _map_at(csets, ccover, kk, opts, prefix, deadline, node_cap=cap)
+                if got is None:
+                    break
+                cand = got[0]
+                cand = LutNetwork(k, cand.input_names, cand.output_names, cand.luts, cand.drivers, {},
+                                  cand.method + ("" if kk == k else f" (k={kk})"))
+                if here is not None and cand.count > SMALLER_K_GIVE_UP * here.count:
+                    break  # smaller LUTs only get worse from here on
+                if here is None or key(cand) < key(here):
+                    here = cand
+            if here is not None and key(here) < key(best[0]):
+                best = (here, csets, ccover)
     net, csets, ccover = best
-    cut = _cover_network(csets.table, ccover, k, opts, prefix, deadline)
+    cut = None
+    if opts.objective == "depth" or (not at_bound and "decomposition" in net.method
+                                     and ccover.literals <= COVER_AREA_LIMIT):
+        # for area a cover-only network has never beaten the decomposition on the suite or the samples, and
+        # mapping a large cover costs seconds: only small covers, and only when the count can still improve
+        cut = _cover_network(csets.table, ccover, k, opts, prefix, deadline)
     if cut is not None and key(cut) < key(net):
         net = cut
     if opts.objective == "depth" and not _past(deadline):
         net = _depth_pass(csets, net, cut, opts, prefix)
-    points = PointSets(table) if table.n_inputs <= min(POINT_LIMIT, opts.enum_limit) else None
-    bounds = lower_bounds(table, k, opts.enum_limit, points)
     net = LutNetwork(net.k, table.input_names, net.output_names, _spec_order_fanins(net, table.input_names),
                      net.drivers, bounds, net.method)
     if opts.verify:

@@ -26,8 +26,9 @@ class LutOptions:
     work_budget : int
         Most array elements the decomposition may process for one output (group), a machine-independent measure
         of its time; past it that output is rolled back and mapped by cuts on the cover (0: no budget). Roughly
-        25 to 50 ns per element. Outputs whose support ``s`` gives ``s**2 * 2**s`` above a sixteenth of it are
-        not decomposed at all.
+        25 to 50 ns per element. It is doubled for every support input below 16 (an 11-input output gets 32
+        times as much), so only wide outputs are bounded by it. Outputs whose support ``s`` gives
+        ``s**2 * 2**s`` above a sixteenth of it are not decomposed at all.
     time_limit : float or None
         Wall-clock seconds for the whole mapping (None: no limit). Once it has passed, outputs not yet decomposed
         are mapped by cuts on the cover and the optional passes (other orders, smaller sizes, remapping, depth)
