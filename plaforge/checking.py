@@ -80,7 +80,8 @@ def _combine(proof: Verdict, witness: Verdict | None) -> Verdict:
     out = []
     for p, w in zip(proof.outputs, witness.outputs):
         failure = p.failure if p.failure is not None else w.failure
-        out.append(OutputVerdict(p.name, p.passed and w.passed, w.vectors, f"{p.method}; witness: {w.method}", failure))
+        out.append(OutputVerdict(p.name, p.passed and w.passed, w.vectors, f"{p.method}; witness: {w.method}", failure,
+                                 w.failures if w.failures or p.passed else None))
     return Verdict(proof.artifact, tuple(out))
 
 
@@ -112,7 +113,7 @@ def _check_verilog(table: Table, p: Path, exhaustive_limit: int, samples: int, s
         return proof
     if not have_iverilog():
         out = tuple(OutputVerdict(o.name, o.passed, o.vectors, f"{o.method}; iverilog not installed, not simulated",
-                                  o.failure) for o in proof.outputs)
+                                  o.failure, o.failures) for o in proof.outputs)
         return Verdict(proof.artifact, out)
     witness = check_simulated(table, lambda pts: iverilog_points(table, text, net.top, pts, str(p)),
                               "iverilog simulation", exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,

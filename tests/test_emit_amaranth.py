@@ -6,6 +6,7 @@ definition of each function (not from plaforge's cover code); ruff judges the so
 
 from __future__ import annotations
 
+import re
 import shutil
 import subprocess
 import sys
@@ -21,7 +22,8 @@ from plaforge.core.table import Table
 from plaforge.emit.amaranth import build_component, module_source
 from plaforge.flow import realize
 from plaforge.verify.component import component_class, load_module
-from plaforge.verify.simulate import check_component, simulate_points
+from plaforge.verify.simulate import check_component, simulate_points, table_cubes
+from plaforge.verify.vectors import sample_points
 
 
 def _adder3() -> Table:
@@ -223,6 +225,30 @@ def test_wide_module_checks_by_sampling_and_proof(tmp_path) -> None:
     p, expected, actual = bad.outputs[0].failure
     # reference: the definition above, evaluated directly on the reported point
     assert (p & 0x0FFFF == 0x01234 or p & 0x3FFFF == 0x2ABCD) == bool(expected) and actual == 1 - expected
+    # how many of the driven vectors fail, counted here from the definitions on the vectors the check drives
+    driven, _corners = sample_points(t.n_inputs, table_cubes(t), 10, 5)
+    want_hit = [p & 0x0FFFF == 0x01234 or p & 0x3FFFF == 0x2ABCD for p in driven]
+    got_hit = [p & 0x3FFFF == 0x2ABCD for p in driven]
+    assert bad.outputs[0].failures == sum(w != g for w, g in zip(want_hit, got_hit)) > 0
+    assert bad.outputs[1].failures == 0 and bad.outputs[0].vectors == len(driven)
+
+
+def test_sampled_vector_counts_add_up() -> None:
+    """corner + random = vectors driven, and the points where every output is a don't-care are counted apart."""
+    # 17 inputs; where input 16 is 1 both outputs are don't-care (half the points)
+    t = Table.from_function([f"x{i}" for i in range(17)], ["odd", "low"], lambda p: [p & 1, p & 0xFF < 8],
+                            dc_fn=lambda p: [p >> 16 & 1] * 2)
+    verdict = check_component(t, build_component(t, _on_cover(t)), exhaustive_limit=16, samples=200, seed=3)
+    assert verdict.passed
+    m = re.search(r"(\d+) corner \+ (\d+) random = (\d+) vectors driven \(seed 3; (\d+) points where every output is "
+                  r"don't-care skipped\)", verdict.outputs[0].method)
+    assert m is not None, verdict.outputs[0].method
+    corner, rand, total, skipped = map(int, m.groups())
+    points, corners = sample_points(17, table_cubes(t), 200, 3)
+    all_dc = [p >> 16 & 1 for p in points]  # the definition above
+    assert corner + rand == total == len(points) - sum(all_dc) and skipped == sum(all_dc) > 0
+    assert corner == corners - sum(all_dc[:corners])
+    assert all(o.vectors == total and o.failures == 0 for o in verdict.outputs)
 
 
 def test_in_process_component_from_the_table_alone() -> None:

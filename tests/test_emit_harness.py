@@ -8,6 +8,7 @@ carries. It must also fail when the module is wrong.
 from __future__ import annotations
 
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -66,7 +67,21 @@ def test_harness_fails_on_a_corrupted_module(tmp_path) -> None:
     (tmp_path / "test_addsub.py").write_text(harness_source(t, "addsub_sop", source_name="addsub.toml"))
     res = _run_alone(tmp_path)
     assert res.returncode == 1, res.stdout + res.stderr
-    assert "expected" in res.stdout and "at point" in res.stdout
+    # The count each failing output reports, worked out here by matching the corrupted cubes point by point.
+    bad = _cover(t, corrupt=True)
+    for j, name in enumerate(t.output_names):
+        care = wrong = 0
+        for p in range(1 << t.n_inputs):
+            on, dc = t.evaluate(p)
+            if dc >> j & 1:
+                continue
+            care += 1
+            got = any(p & c.care == c.value and c.outputs >> j & 1 for c in bad.cubes)
+            wrong += got != bool(on >> j & 1)
+        if wrong:
+            assert f"{name}: expected " in res.stdout and f"; {wrong} of {care} care vectors fail" in res.stdout
+    # the failing vector named port by port, buses in hex with their width
+    assert re.search(r"at a\[3\]=0x[0-7] b\[3\]=0x[0-7] sub=[01] \(point \d+\)", res.stdout), res.stdout
 
 
 @pytest.mark.skipif(shutil.which("ruff") is None, reason="ruff is not installed")

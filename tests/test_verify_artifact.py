@@ -185,6 +185,16 @@ def test_check_artifact_dispatches_by_suffix(tmp_path: Path) -> None:
     assert "SAT on the gate netlist" in fail.method and "refuted" in format_verdict(v, t)
     report = format_verdict(v, t)
     assert "FAIL" in report and "first failure at a[2]=0x" in report and f"expected {expected}, got {actual}" in report
+    # the exhaustive check counts the failing points: here counted from the sum and the corrupted cubes directly
+    bad = _corrupt(cov)
+    report = format_verdict(check_artifact(t, tmp_path / "bad.pla"), t)
+    for j, name in enumerate(t.output_names):
+        wrong = sum(any(p & c.care == c.value and c.outputs >> j & 1 for c in bad.cubes)
+                    != bool(((p & 3) + (p >> 2 & 3)) >> j & 1) for p in range(16))
+        line = next(ln for ln in report.splitlines() if ln.strip().startswith(name + " "))
+        assert ("FAIL" in line) == (wrong > 0), (name, report)
+        if wrong:
+            assert f"; {wrong} of 16 care vectors fail" in report, report
 
 
 def test_report_names_vector_by_ports() -> None:

@@ -13,8 +13,10 @@ Data it carries:
   reaching the ON and OFF regions and the edges of the ON and don't-care cubes), whose source the file carries: the
   same vectors ``plaforge check --simulate`` drives. The file's header says it samples.
 
-The file finds the module's component with the source of :func:`plaforge.verify.component.component_class`. Don't-care
-points are never judged.
+The file finds the module's component with the source of :func:`plaforge.verify.component.component_class`, and
+names a failing vector port by port (buses in hex with their width) with the source of
+:func:`plaforge.verify.report.describe_point`, as ``plaforge check`` does; it also counts the failing vectors.
+Don't-care points are never judged.
 """
 
 from __future__ import annotations
@@ -28,6 +30,7 @@ import numpy as np
 from ..core.names import ports_of
 from ..core.table import Table, unpack_bits
 from ..verify.component import component_class
+from ..verify.report import describe_point
 from ..verify.simulate import DEFAULT_SAMPLES
 from ..verify.vectors import sample_points
 from .layout import py_string, seq_lines
@@ -60,9 +63,25 @@ IN_PORTS = @@IN_PORTS@@
 IN_ORDER = @@IN_ORDER@@
 OUT_PORTS = @@OUT_PORTS@@
 OUT_ORDER = @@OUT_ORDER@@
+# The spec's names of the input ports, their widths and whether each is a single bit,
+# in IN_PORTS order (their bits are IN_ORDER, port by port): for failure messages.
+IN_NAMES = @@IN_NAMES@@
+IN_WIDTHS = @@IN_WIDTHS@@
+IN_SCALAR = @@IN_SCALAR@@
 @@DATA@@
 
 @@FINDER@@
+
+
+@@DESCRIBE@@
+
+
+def _buses():
+    out, at = [], 0
+    for name, width, scalar in zip(IN_NAMES, IN_WIDTHS, IN_SCALAR):
+        out.append((name, tuple(IN_ORDER[at : at + width]), scalar))
+        at += width
+    return out
 
 
 def _component():
@@ -106,27 +125,28 @@ def results():
     got = _simulate(_component(), points)
     out = {}
     for j, name in enumerate(OUTPUTS):
-        vectors, failure = 0, None
+        vectors, failures, failure = 0, 0, None
         for k, p in enumerate(points):
             if dc[k] >> j & 1:
                 continue
             vectors += 1
             want, have = on[k] >> j & 1, got[k] >> j & 1
-            if failure is None and want != have:
-                failure = (p, want, have)
-        out[name] = (vectors, failure)
+            if want != have:
+                failures += 1
+                if failure is None:
+                    failure = (p, want, have)
+        out[name] = (vectors, failures, failure)
     return out
 
 
 @pytest.mark.parametrize("output", OUTPUTS)
 def test_output_matches_spec(results, output):
-    vectors, failure = results[output]
+    vectors, failures, failure = results[output]
     if failure is not None:
         point, want, have = failure
-        bits = format(point, f"0{max(N_INPUTS, 1)}b")[::-1]
         pytest.fail(
-            f"{output}: at point {point} (inputs 0..{N_INPUTS - 1} = {bits}) "
-            f"expected {want}, got {have} ({vectors} vectors driven)"
+            f"{output}: expected {want}, got {have} at {describe_point(_buses(), point)}; "
+            f"{failures} of {vectors} care vectors fail"
         )
 '''
 
@@ -272,6 +292,10 @@ def harness_source(
     out = _TEMPLATE
     for key, value in (
         ("@@FINDER@@", _embedded(component_class)),
+        ("@@DESCRIBE@@", _embedded(describe_point)),
+        ("@@IN_NAMES@@", _tuple([py_string(p.spec_name) for p in in_ports])),
+        ("@@IN_WIDTHS@@", _tuple([str(p.width) for p in in_ports])),
+        ("@@IN_SCALAR@@", _tuple([str(p.scalar) for p in in_ports])),
         ("@@DATA@@", data),
         ("@@EXPECT@@", expect),
         ("@@MODULE@@", module_stem),

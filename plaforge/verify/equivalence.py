@@ -29,13 +29,16 @@ EXHAUSTIVE_METHOD = "proven: exhaustive, every point (bit-parallel)"
 
 @dataclass(frozen=True)
 class OutputVerdict:
-    """Result for one output: ``failure`` is ``(point, expected, actual)`` for the first failing point, if any."""
+    """Result for one output: ``failure`` is ``(point, expected, actual)`` for the first failing point, if any;
+    ``failures`` how many of the ``vectors`` judged fail, where the method counts them (``None``: a proof that
+    stops at its first counterexample)."""
 
     name: str
     passed: bool
     vectors: int
     method: str
     failure: tuple[int, int, int] | None = None
+    failures: int | None = None
 
 
 @dataclass(frozen=True)
@@ -100,10 +103,11 @@ def _judge(table: Table, j: int, got: np.ndarray, method: str) -> OutputVerdict:
     bad = [p for p in (p_miss, p_extra) if p is not None]
     care = (1 << n) - int(np.unpackbits(np.ascontiguousarray(dc).view(np.uint8)).sum())
     if not bad:
-        return OutputVerdict(table.output_names[j], True, care, method)
+        return OutputVerdict(table.output_names[j], True, care, method, failures=0)
     p = min(bad)
     expected = 1 if p == p_miss else 0
-    return OutputVerdict(table.output_names[j], False, care, method, (p, expected, 1 - expected))
+    wrong = int(np.unpackbits(np.ascontiguousarray(missing | extra).view(np.uint8)).sum())
+    return OutputVerdict(table.output_names[j], False, care, method, (p, expected, 1 - expected), wrong)
 
 
 def check_cover(table: Table, cover: Cover, limit: int = DEFAULT_ENUM_LIMIT, artifact: str = "cover") -> Verdict:

@@ -205,16 +205,27 @@ def check_simulated(
         order with the expected and actual values.
     """
     n = table.n_inputs
-    if n <= exhaustive_limit:
+    exhaustive = n <= exhaustive_limit
+    if exhaustive:
         pts = np.arange(1 << n, dtype=np.int64)
-        method = f"proven: {simulator}, exhaustive, every care point"
+        corners = 0
     else:
         plist, corners = sample_points(n, table_cubes(table), samples, seed)
         pts = np.array(plist, dtype=object if n > 62 else np.int64)
-        method = f"sampled: {simulator}, {corners} corner + {len(plist) - corners} random vectors (seed {seed})"
     on, dc = _expected(table, pts)
     all_dc = np.logical_and.reduce(dc) if dc else np.zeros(len(pts), dtype=bool)
     keep = ~all_dc
+    skipped = int(all_dc.sum())
+    if exhaustive:
+        method = f"proven: {simulator}, exhaustive, {int(keep.sum()):,} vectors driven (every point but {skipped:,} " \
+                 f"where every output is don't-care)" if skipped else \
+                 f"proven: {simulator}, exhaustive, all {len(pts):,} points driven"
+    else:
+        corner_kept = int(keep[:corners].sum())
+        random_kept = int(keep.sum()) - corner_kept
+        method = (f"sampled: {simulator}, {corner_kept:,} corner + {random_kept:,} random = {int(keep.sum()):,} "
+                  f"vectors driven (seed {seed}"
+                  + (f"; {skipped:,} points where every output is don't-care skipped)" if skipped else ")"))
     pts = pts[keep]
     on = [a[keep] for a in on]
     dc = [a[keep] for a in dc]
@@ -228,7 +239,7 @@ def check_simulated(
         if bad.size:
             k = int(bad[0])
             failure = (int(pts[k]), int(on[j][k]), 1 - int(on[j][k]))
-        res.append(OutputVerdict(name, failure is None, int(care.sum()), method, failure))
+        res.append(OutputVerdict(name, failure is None, int(care.sum()), method, failure, int(bad.size)))
     return Verdict(artifact, tuple(res))
 
 
