@@ -23,9 +23,9 @@ Pipeline
 4. When ``options.remap`` is set, the whole network is remapped by cuts (depth-optimal labels, then area
    recovery), and the better network by ``options.objective`` is kept.
 5. With those extra passes, steps 1-4 also run for ``k - 1``, ``k - 2``, ... down to 3 in every order tried,
-   for tables of at most ``SMALLER_K_LIMIT`` inputs, stopping at the first size whose network has (or whose
-   decomposition reaches) more than ``SMALLER_K_GIVE_UP`` times the LUTs of the best so far (a k'-LUT network is a
-   k-LUT network). Every output mapped from the cover alone is one more candidate (for the area objective only
+   for tables of at most ``SMALLER_K_LIMIT`` inputs, stopping at the first size whose network has more than
+   ``SMALLER_K_GIVE_UP`` times the LUTs of the best so far, or whose decomposition builds more than
+   ``SMALLER_K_CAP`` times as many (a k'-LUT network is a k-LUT network). Every output mapped from the cover alone is one more candidate (for the area objective only
    when the count is above its bound, some output was decomposed and the cover has at most ``COVER_AREA_LIMIT``
    literals). The best by ``options.objective`` is kept.
 6. ``objective="depth"``: per output the shallowest realization, with a Shannon multiplexer tree for outputs
@@ -179,6 +179,7 @@ def _objective_key(objective: str):
 
 SMALLER_K_LIMIT = 10
 SMALLER_K_GIVE_UP = 1.5
+SMALLER_K_CAP = 1.25  # LUTs a smaller size may build, times the best so far, before its pass is abandoned
 TWO_ORDER_LIMIT = 12
 MENTIONED_SLACK = 4  # inputs beyond the support worth keeping for their don't-cares
 EXTRA_PASS_WORK = 1 << 24  # decomposition work (array elements) of the first candidate above which no other
@@ -434,8 +435,8 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
                     continue  # the first candidate
                 if here is not None and _past(deadline):
                     break
-                # smaller LUTs stop at the first size over SMALLER_K_GIVE_UP times the best of this order
-                cap = int(SMALLER_K_GIVE_UP * here.count) + 1 if here is not None and kk < k else None
+                # a smaller size is abandoned once its decomposition builds SMALLER_K_CAP times the best's LUTs
+                cap = int(SMALLER_K_CAP * here.count) + 1 if here is not None and kk < k else None
                 got = _map_at(csets, ccover, kk, opts, prefix, deadline, node_cap=cap)
                 if got is None:
                     break
