@@ -157,6 +157,8 @@ class BuildOptions:
         ``"shared"`` or ``"per-output"``.
     time_limit : float
         Seconds for the exact solver.
+    effort : str
+        Heuristic effort: ``"fast"``, ``"normal"`` or ``"high"`` (:class:`plaforge.minimize.MinimizeOptions`).
     budget_rows, budget_luts : int or None
         Device budgets: product-term rows (AND-plane rows) and LUTs. ``None``: no budget.
     verilog : bool
@@ -184,6 +186,7 @@ class BuildOptions:
     exact: bool = False
     cost: str = "shared"
     time_limit: float = 60.0
+    effort: str = "normal"
     budget_rows: int | None = None
     budget_luts: int | None = None
     verilog: bool = True
@@ -365,7 +368,7 @@ def build(
     k = opts.device.lut_size if opts.device is not None and opts.device.lut_size else opts.k
 
     minimize_options = MinimizeOptions(exact=opts.exact, cost=opts.cost, time_limit=opts.time_limit,
-                                       phase=opts.phase)
+                                       phase=opts.phase, effort=opts.effort)  # type: ignore[arg-type]
     cover = _choose_cover(table, minimize_options, opts.device, k)
     if opts.hazard_free is not None:
         cover = hazard_free_cover(table, cover, scope=opts.hazard_free, changing=opts.changing,

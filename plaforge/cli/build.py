@@ -23,6 +23,8 @@ from .group import cli
               help="shared: count distinct product terms; per-output: count terms per output.")
 @click.option("--time-limit", type=click.FloatRange(min=0.1), default=60.0, show_default=True,
               help="Seconds the exact solver may spend.")
+@click.option("--effort", type=click.Choice(["fast", "normal", "high"]), default="normal", show_default=True,
+              help="Heuristic effort, as in plaforge minimize.")
 @click.option("--budget-rows", type=click.IntRange(min=0), help="Product-term rows the target device offers.")
 @click.option("--budget-luts", type=click.IntRange(min=0), help="LUTs the target region offers.")
 @click.option("--hazard-free", "hazard_free", type=click.Choice(["care", "all"]), is_flag=False, flag_value="care",
@@ -38,7 +40,8 @@ from .group import cli
 @click.option("--device", "device", help="Fit to a device profile: a built-in name or a profile .toml file "
               "(see docs/devices.md).")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object and nothing else.")
-def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: float, budget_rows: int | None,
+def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: float, effort: str,
+              budget_rows: int | None,
               budget_luts: int | None, hazard_free: str | None, changing: str | None, gates: str | None,
               max_fanin: str, name: str | None, phase: bool, device: str | None, as_json: bool) -> None:
     """Minimize SPEC, map it to LUTs, generate modules and Verilog, and check every artifact against SPEC.
@@ -55,7 +58,8 @@ def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: f
 
     profile = load_profile(device) if device is not None else None
     table = read_spec(spec)
-    opts = BuildOptions(name=name, phase=phase, device=profile, k=k, exact=exact, cost=cost, time_limit=time_limit, budget_rows=budget_rows,
+    opts = BuildOptions(name=name, phase=phase, device=profile, k=k, exact=exact, cost=cost, time_limit=time_limit, effort=effort,
+                        budget_rows=budget_rows,
                         budget_luts=budget_luts, hazard_free=hazard_free,
                         changing=None if changing is None else changing_mask(table, changing), gates=styles,
                         max_fanin=int(max_fanin))

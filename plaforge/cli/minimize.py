@@ -16,11 +16,14 @@ from .group import cli
 @click.option("--exact", is_flag=True, help="Prove a minimum cover (CP-SAT) instead of the fast heuristic.")
 @click.option("--time-limit", type=click.FloatRange(min=0.1), default=60.0, show_default=True,
               help="Seconds the whole minimization may spend; past it the exact path reports its best cover and "
-              "lower bound.")
+              "lower bound. Not given: the heuristic allows at least (inputs + outputs) x rows / 500 s.")
 @click.option("--memory-limit", type=click.IntRange(min=1), default=2048, show_default=True,
               help="Megabytes the exact path may plan for its primes and covering problem.")
 @click.option("--cost", type=click.Choice(["shared", "per-output"]), default="shared", show_default=True,
               help="shared: count distinct product terms; per-output: count terms per output (no sharing).")
+@click.option("--effort", type=click.Choice(["fast", "normal", "high"]), default="normal", show_default=True,
+              help="Heuristic: fast = one run; normal = more starts and descents within a budget relative to the "
+              "first run; high = all of them, descents repeated while they help.")
 @click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
 @click.option("--hazard-free", "hazard_free", type=click.Choice(["care", "all"]), is_flag=False, flag_value="care",
               default=None, help="Cover every adjacent pair of ON points by one term (no static hazard for "
@@ -32,7 +35,7 @@ from .group import cli
               "file); exit 1 when it does not.")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else.")
 def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, memory_limit: int, cost: str,
-                 phase: bool, hazard_free: str | None, changing: str | None, listing: bool, device: str | None,
+                 effort: str, phase: bool, hazard_free: str | None, changing: str | None, listing: bool, device: str | None,
                  as_json: bool) -> None:
     """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
     from ..core.fileio import refuse_clobbering, write_text_atomic
@@ -49,8 +52,10 @@ def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, mem
     profile = load_profile(device) if device is not None else None
     table = read_spec(spec)
     phase = phase or (profile is not None and profile.polarity)
+    given = click.get_current_context().get_parameter_source("time_limit") is not click.core.ParameterSource.DEFAULT
     options = MinimizeOptions(exact=exact, time_limit=time_limit, cost=cost,  # type: ignore[arg-type]
-                              phase=phase, progress=exact and sys.stderr.isatty(), memory_limit=memory_limit)
+                              phase=phase, progress=not as_json and sys.stderr.isatty(), memory_limit=memory_limit,
+                              effort=effort, scale_time_limit=not given)  # type: ignore[arg-type]
     cover = minimize(table, options)
     added = []
     if hazard_free is not None:
