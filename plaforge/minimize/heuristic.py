@@ -73,7 +73,7 @@ SIGNATURE_LIMIT = 16
 #: ``normal`` effort: work after start A may run until this share of A's time has passed since A's answer ...
 EXTRA_SHARE = 0.1
 #: ... or this many seconds, whichever is longer.
-EXTRA_FLOOR = 0.2
+EXTRA_FLOOR = 1.0
 #: Seconds the lower bound may take (computed while the first start runs).
 BOUND_SECONDS = 0.5
 #: Default time limit: at least ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds.
