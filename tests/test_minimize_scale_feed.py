@@ -25,8 +25,8 @@ from plaforge.minimize.heuristic import MINIMIZER_DEFAULTS, decode_row, given_jo
 def _onoff_text(n: int, samples: int, seed: int) -> str:
     """Seeded ON/OFF rows (``.type fr``) of y = (x mod 5 == 0) and z = parity of inputs 0-2."""
     rng = np.random.default_rng(seed)
-    pts = sorted(set(int(p) for p in rng.integers(0, 1 << n, size=samples)))
-    rows = [("".join(str(p >> i & 1) for i in range(n)), f"{int(p % 5 == 0)}{bin(p & 7).count('1') & 1}")
+    pts = sorted({int(p) for p in rng.integers(0, 1 << n, size=samples)})
+    rows = [("".join(str(p >> i & 1) for i in range(n)), f"{int(p % 5 == 0)}{(p & 7).bit_count() & 1}")
             for p in pts]
     return "\n".join([f".i {n}", ".o 2", ".type fr"] + [f"{i} {o}" for i, o in rows] + [".e", ""])
 
