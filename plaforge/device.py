@@ -33,6 +33,7 @@ from .core.cube import Cover
 from .core.errors import PlaforgeError
 from .core.network import LutNetwork
 from .core.table import Table
+from .lut.depth import cone_sizes
 
 __all__ = ["BUILTIN", "PROFILE_KEYS", "Profile", "fit", "fit_lines", "load_profile", "lut_cones"]
 
@@ -149,18 +150,7 @@ def load_profile(name_or_path: str) -> Profile:
 
 def lut_cones(net: LutNetwork) -> dict[str, int]:
     """Output name -> LUTs in its fan-in cone (LUTs shared between outputs count for each)."""
-    fanin = {lut.name: lut.inputs for lut in net.luts}
-    out = {}
-    for name, d in zip(net.output_names, net.drivers):
-        seen: set[str] = set()
-        stack = [d]
-        while stack:
-            x = stack.pop()
-            if x in fanin and x not in seen:
-                seen.add(x)
-                stack.extend(fanin[x])
-        out[name] = len(seen)
-    return out
+    return dict(zip(net.output_names, cone_sizes(net)))
 
 
 def _limit(what: str, used: int, available: int | None) -> dict | None:
