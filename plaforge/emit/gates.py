@@ -28,6 +28,7 @@ network keeps the hazard behaviour of its cover (see docs/hazards.md).
 from __future__ import annotations
 
 from collections import Counter
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from ..core.cube import Cover
@@ -113,6 +114,10 @@ class GateNetwork:
                 lines.append(f"{what}: {count}, wider than any package")
         lines.append(f"gates: {len(self.gates)}, logic depth: {self.depth}")
         return lines
+
+    def check_table(self, table: Table) -> None:
+        """Raise :class:`~plaforge.core.errors.ArtifactError` unless the network's names are the table's."""
+        check_names(table, self.cover.input_names, self.cover.output_names, "the gate network")
 
 
 class _Builder:
@@ -210,12 +215,12 @@ def _bit(port: Port, b: int) -> str:
     return f"self.{port.name}" if port.scalar else f"self.{port.name}[{b}]"
 
 
-def _refs(table: Table) -> tuple[list[str], list[str]]:
-    """Source text of each table input and output inside ``elaborate``."""
+def port_refs(table: Table, bit: Callable[[Port, int], str]) -> tuple[list[str], list[str]]:
+    """Text of each table input and output: ``bit(port, b)`` for the port and bit that carry it."""
     ins, outs = [""] * table.n_inputs, [""] * table.n_outputs
     for p in ports_of(table):
         for b, idx in enumerate(p.members):
-            (ins if p.direction == "in" else outs)[idx] = _bit(p, b)
+            (ins if p.direction == "in" else outs)[idx] = bit(p, b)
     return ins, outs
 
 
@@ -231,8 +236,8 @@ def gates_module_source(table: Table, network: GateNetwork, *, source_name: str 
     ArtifactError
         If the network's names are not the table's.
     """
+    network.check_table(table)
     cover = network.cover
-    check_names(table, cover.input_names, cover.output_names, "the gate network")
     name = class_name if class_name is not None else class_name_for(source_name or table.source)
     if identifier(name, GENERATED_FILE_NAMES) != name:
         raise ValueError(f"class name {name!r} is not usable; give a Python identifier such as 'AddressDecoder'")
@@ -259,7 +264,7 @@ def gates_module_source(table: Table, network: GateNetwork, *, source_name: str 
     for p in ports_of(table):
         lines.append(f"    {p.name}: {'In' if p.direction == 'in' else 'Out'}({p.width})")
     lines += ["", "    def elaborate(self, platform):", "        m = Module()"]
-    ins, outs = _refs(table)
+    ins, outs = port_refs(table, _bit)  # source text inside ``elaborate``
 
     def ref(r: Ref) -> str:
         return ins[r[1]] if r[0] == "in" else f"g{r[1]}" if r[0] == "gate" else str(r[1])

@@ -9,9 +9,9 @@ from __future__ import annotations
 
 import re
 
-from ..core.names import check_names, ports_of
+from ..core.names import ports_of
 from ..core.table import Table
-from .gates import GateNetwork, Ref
+from .gates import GateNetwork, Ref, port_refs
 from .verilog import verilog_name
 
 __all__ = ["gates_verilog_source"]
@@ -25,16 +25,12 @@ def gates_verilog_source(table: Table, network: GateNetwork, name: str) -> str:
     ArtifactError
         If the network's names are not the table's.
     """
-    cover = network.cover
-    check_names(table, cover.input_names, cover.output_names, "the gate network")
+    network.check_table(table)
     ports = ports_of(table)
     prefix = "g"
     while any(re.fullmatch(re.escape(prefix) + r"\d+", p.name) for p in ports):
         prefix += "_"
-    ins, outs = [""] * table.n_inputs, [""] * table.n_outputs
-    for p in ports:
-        for b, idx in enumerate(p.members):
-            (ins if p.direction == "in" else outs)[idx] = p.name if p.scalar else f"{p.name}[{b}]"
+    ins, outs = port_refs(table, lambda p, b: p.name if p.scalar else f"{p.name}[{b}]")
 
     def ref(r: Ref) -> str:
         return ins[r[1]] if r[0] == "in" else f"{prefix}{r[1]}" if r[0] == "gate" else f"1'b{r[1]}"
