@@ -13,7 +13,8 @@ What the minimizer is fed
 The sets as the rows gave them (:func:`plaforge.core.sets.given_sets`): ON with don't-cares (``.type f``/``fd``:
 intype F|D, the minimizer works out OFF) or ON with OFF (``fr``/``fdr``: F|R, it works out the don't-cares), rows
 with identical input parts merged into one row over all outputs. Nothing is complemented or subtracted in Python on
-the way in. Tables whose outputs leave different sets implicit, or the ON set, are fed the separated sets of
+the way in, except that ON rows given with don't-care rows are cut by the complement of those (bounded, see
+:meth:`plaforge.core.table.Table.on_pieces`), which the minimizer handles several times faster. Tables whose outputs leave different sets implicit, or the ON set, are fed the separated sets of
 :meth:`plaforge.core.table.Table.cover_sets` instead (F|D). Under the ``per-output`` cost each output is minimized
 alone and identical terms are merged only afterwards.
 
@@ -367,7 +368,11 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
         ons, others, kind = fs.on, fs.dc, "fd"
         regions = lambda: fs.regions
     else:
-        n, m, first, given = gs.n, gs.m, given_job(gs), gs.given
+        # ON rows that may overlap DC rows: the ON rows cut by the complement of the DC rows (Table.on_pieces,
+        # bounded) make the minimizer's own work several times smaller (measured on the suite's wide40: 3.3 s
+        # against 15.6 s from the overlapping rows)
+        first = sets_job(table.cover_sets(inverted)) if gs.kind == "fd" and any(gs.other) else given_job(gs)
+        n, m, given = gs.n, gs.m, gs.given
         ons, others, kind = gs.on, gs.other, gs.kind
         regions = lambda: signature_regions(n, *gs.point_arrays())
 
