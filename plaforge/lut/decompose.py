@@ -299,15 +299,18 @@ class Decomposer:
                 keep = trial
         return [sigs[x] for x in keep], [arrays[x] for x in keep]
 
+    def _reduced(self, u: Universe, sigs: list[str], on: np.ndarray, off: np.ndarray
+                 ) -> tuple[list[str], list[np.ndarray]]:
+        """:meth:`_reduce` on the signals' arrays over ``u``."""
+        return self._reduce(sigs, self._arrays(sigs, u), on, off)
+
     # -- making one LUT --------------------------------------------------------------------------------------
     def make_lut(self, u: Universe, sigs: list[str], on: np.ndarray, off: np.ndarray) -> str:
         """A signal compatible with ``(on, off)`` over ``sigs`` (at most k after reduction)."""
-        arrays = self._arrays(sigs, u)
-        sigs, arrays = self._reduce(sigs, arrays, on, off)
-        if not on.any():
-            return "0"
-        if not off.any():
-            return "1"
+        sigs, arrays = self._reduced(u, sigs, on, off)
+        const = _constant(on, off)
+        if const is not None:
+            return const
         # an existing signal that fits (identical function, or equal up to don't-cares)
         if not self.reuse:
             pass
@@ -345,12 +348,10 @@ class Decomposer:
     # -- realizing one output --------------------------------------------------------------------------------
     def realize(self, u: Universe, sigs: list[str], on: np.ndarray, off: np.ndarray) -> str:
         """A signal realizing the output ``(on, off)`` (global arrays over ``u``) from signals ``sigs``."""
-        if not on.any():
-            return "0"
-        if not off.any():
-            return "1"
-        arrays = self._arrays(sigs, u)
-        sigs, arrays = self._reduce(sigs, arrays, on, off)
+        const = _constant(on, off)
+        if const is not None:
+            return const
+        sigs, arrays = self._reduced(u, sigs, on, off)
         while len(sigs) > self.k:
             step = self._reuse(u, sigs, arrays, on, off)
             if step is not None:
@@ -372,8 +373,7 @@ class Decomposer:
                 sigs = [s for s in dict.fromkeys((h0, h1)) if s not in ("0", "1")]
             else:
                 sigs = [x] + [s for s in dict.fromkeys((f0, f1)) if s not in ("0", "1")]
-            arrays = self._arrays(sigs, u)
-            sigs, arrays = self._reduce(sigs, arrays, on, off)
+            sigs, arrays = self._reduced(u, sigs, on, off)
         return self.make_lut(u, sigs, on, off)
 
     def shannon(self, u: Universe, sigs: list[str], on: np.ndarray, off: np.ndarray) -> str:
@@ -381,12 +381,10 @@ class Decomposer:
         ``2**s + s <= k``) choose among the ``2**s`` cofactors, each realized the same way, until at most ``k``
         signals are left (one LUT). Depth is at most ``1 + ceil((n - k) / s)`` for ``n`` signals (``k >= 3``)."""
         s = shannon_selects(self.k)
-        if not on.any():
-            return "0"
-        if not off.any():
-            return "1"
-        arrays = self._arrays(sigs, u)
-        sigs, arrays = self._reduce(sigs, arrays, on, off)
+        const = _constant(on, off)
+        if const is not None:
+            return const
+        sigs, arrays = self._reduced(u, sigs, on, off)
         if len(sigs) <= self.k:
             return self.make_lut(u, sigs, on, off)
         sel, rest = sigs[:s], sigs[s:]
@@ -520,6 +518,11 @@ class Decomposer:
             if dropped >= 2:
                 count += 1
         return count
+
+
+def _constant(on: np.ndarray, off: np.ndarray) -> str | None:
+    """``"0"`` for an output on nowhere, ``"1"`` for one off nowhere, else None."""
+    return "0" if not on.any() else "1" if not off.any() else None
 
 
 def shannon_selects(k: int) -> int:
