@@ -2,6 +2,11 @@
 
 ``read_spec(path)`` returns a :class:`plaforge.table.Table`; every malformed file raises
 :class:`plaforge.core.errors.SpecError` with ``FILE:LINE[:COL]: what is wrong, what was expected``.
+
+The readers ``parse_pla``, ``parse_csv`` and ``parse_design`` (and ``parse_cover`` for a PLA cover) all take
+``(text, path)``: ``text`` is the file contents and ``path`` the file name, used in every message and, as its base
+name, for the table's ``source``. ``read_pla``, ``read_csv`` and ``read_cover`` take a path and read the file first;
+a file that cannot be read (missing, a directory, not UTF-8) is a :class:`SpecError` too.
 """
 
 from __future__ import annotations

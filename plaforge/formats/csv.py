@@ -136,16 +136,7 @@ def _cell_bits(text: str, col: _Column) -> tuple[int, int] | str:
 def parse_csv(text: str, path: str) -> Table:
     """Read a CSV truth table (see the module docs) into a :class:`~plaforge.table.Table`.
 
-    Parameters
-    ----------
-    text : str
-        The file contents.
-    path : str
-        File name for messages and the table's ``source``.
-
-    Returns
-    -------
-    Table
+    ``text`` is the file contents; ``path`` names the file as for every reader (see :mod:`plaforge.formats`).
 
     Raises
     ------

@@ -547,16 +547,7 @@ class _Reader:
 def parse_design(text: str, path: str) -> Table:
     """Read a design file (see the module docs) into a :class:`~plaforge.table.Table`.
 
-    Parameters
-    ----------
-    text : str
-        The TOML text.
-    path : str
-        File name for messages and the table's ``source``.
-
-    Returns
-    -------
-    Table
+    ``text`` is the TOML text; ``path`` names the file as for every reader (see :mod:`plaforge.formats`).
 
     Raises
     ------

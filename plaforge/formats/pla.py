@@ -285,16 +285,7 @@ def parse_pla_file(text: str, path: str) -> PlaFile:
 def parse_pla(text: str, path: str) -> Table:
     """Read a PLA spec into a :class:`~plaforge.table.Table` (see the module docs for the type semantics).
 
-    Parameters
-    ----------
-    text : str
-        The file contents.
-    path : str
-        File name used in messages and as the table's ``source``.
-
-    Returns
-    -------
-    Table
+    ``text`` is the file contents; ``path`` names the file as for every reader (see :mod:`plaforge.formats`).
 
     Raises
     ------
@@ -350,13 +341,7 @@ def parse_pla(text: str, path: str) -> Table:
 
 
 def read_pla(path: str | os.PathLike[str]) -> Table:
-    """Read a PLA spec file (see :func:`parse_pla`).
-
-    Raises
-    ------
-    SpecError
-        If the file cannot be read or is malformed.
-    """
+    """Read a PLA spec file (see :func:`parse_pla`); :class:`SpecError` if it cannot be read or is malformed."""
     return parse_pla(read_text(path), os.fspath(path))
 
 
@@ -378,13 +363,7 @@ def parse_cover(text: str, path: str) -> Cover:
 
 
 def read_cover(path: str | os.PathLike[str]) -> Cover:
-    """Read a PLA cover file (see :func:`parse_cover`).
-
-    Raises
-    ------
-    SpecError
-        If the file cannot be read or is malformed.
-    """
+    """Read a PLA cover file (see :func:`parse_cover`); :class:`SpecError` if it cannot be read or is malformed."""
     return parse_cover(read_text(path), os.fspath(path))
 
 
@@ -401,10 +380,6 @@ def write_pla(cover: Cover, source: str | None = None) -> str:
     cover : Cover
     source : str, optional
         Spec file name for the comment.
-
-    Returns
-    -------
-    str
 
     Raises
     ------
@@ -448,10 +423,6 @@ def write_table_pla(table: Table) -> str:
     Parameters
     ----------
     table : Table
-
-    Returns
-    -------
-    str
 
     Raises
     ------
