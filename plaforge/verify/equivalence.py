@@ -8,6 +8,7 @@ per cube or LUT, so a 20-input, 16-output cover checks in well under a second.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
@@ -110,6 +111,17 @@ def _judge(table: Table, j: int, got: np.ndarray, method: str) -> OutputVerdict:
     return OutputVerdict(table.output_names[j], False, care, method, (p, expected, 1 - expected), wrong)
 
 
+def _admit(table: Table, thing: Cover | LutNetwork, limit: int, artifact: str) -> None:
+    """Raise unless ``thing`` has the table's names and the table is small enough to check exhaustively."""
+    check_names(table, thing.input_names, thing.output_names, artifact)
+    table.check_enumerable(limit, "an exhaustive check")
+
+
+def _verdict(table: Table, artifact: str, got: Callable[[int], np.ndarray]) -> Verdict:
+    """Every output judged point by point: ``got(j)`` is what the artifact gives for output ``j``."""
+    return Verdict(artifact, tuple(_judge(table, j, got(j), EXHAUSTIVE_METHOD) for j in range(table.n_outputs)))
+
+
 def check_cover(table: Table, cover: Cover, limit: int = DEFAULT_ENUM_LIMIT, artifact: str = "cover") -> Verdict:
     """Exhaustive bit-parallel check of a cover against a table (n up to ``limit``).
 
@@ -118,11 +130,8 @@ def check_cover(table: Table, cover: Cover, limit: int = DEFAULT_ENUM_LIMIT, art
     ArtifactError
         If the cover's names are not the table's (:func:`plaforge.core.names.check_names`).
     """
-    check_names(table, cover.input_names, cover.output_names, artifact)
-    table.check_enumerable(limit, "an exhaustive check")
-    n = table.n_inputs
-    res = tuple(_judge(table, j, cover_bits(cover, j, n), EXHAUSTIVE_METHOD) for j in range(table.n_outputs))
-    return Verdict(artifact, res)
+    _admit(table, cover, limit, artifact)
+    return _verdict(table, artifact, lambda j: cover_bits(cover, j, table.n_inputs))
 
 
 def check_network(table: Table, net: LutNetwork, limit: int = DEFAULT_ENUM_LIMIT,
@@ -134,8 +143,5 @@ def check_network(table: Table, net: LutNetwork, limit: int = DEFAULT_ENUM_LIMIT
     ArtifactError
         If the network's names are not the table's (:func:`plaforge.core.names.check_names`).
     """
-    check_names(table, net.input_names, net.output_names, artifact)
-    table.check_enumerable(limit, "an exhaustive check")
-    got = network_bits(net, table.n_inputs)
-    res = tuple(_judge(table, j, got[j], EXHAUSTIVE_METHOD) for j in range(table.n_outputs))
-    return Verdict(artifact, res)
+    _admit(table, net, limit, artifact)
+    return _verdict(table, artifact, network_bits(net, table.n_inputs).__getitem__)
