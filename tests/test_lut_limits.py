@@ -7,6 +7,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from click.testing import CliRunner
+from tables import adder
 
 from plaforge.cli import cli
 from plaforge.core.cube import Cover, Cube
@@ -16,18 +17,8 @@ from plaforge.lut import LutOptions, map_luts
 from plaforge.minimize import minimize
 
 
-def _adder(w: int) -> Table:
-    names = [f"a[{i}]" for i in range(w)] + [f"b[{i}]" for i in range(w)]
-
-    def fn(p):
-        s = (p & ((1 << w) - 1)) + (p >> w)
-        return [(s >> i & 1).astype(bool) for i in range(w + 1)]
-
-    return Table.from_function(names, [f"s[{i}]" for i in range(w + 1)], fn)
-
-
 def test_outputs_over_the_work_budget_are_mapped_from_the_cover():
-    t = _adder(4)
+    t = adder(4)
     net = map_luts(t, minimize(t), 4, LutOptions(work_budget=1))
     assert "cover cuts" in net.method
     for p in range(256):
@@ -35,7 +26,7 @@ def test_outputs_over_the_work_budget_are_mapped_from_the_cover():
 
 
 def test_a_time_limit_already_past_raises_time_limit_naming_the_option():
-    t = _adder(4)
+    t = adder(4)
     with pytest.raises(TimeLimit, match="--time-limit"):
         map_luts(t, minimize(t), 4, LutOptions(time_limit=1e-9))
 

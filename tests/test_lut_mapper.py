@@ -7,6 +7,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from tables import adder
 
 from plaforge.core.cube import Cover, Cube
 from plaforge.core.errors import InternalError
@@ -17,23 +18,13 @@ from plaforge.minimize import minimize
 from plaforge.verify.satcnf import check_network_any, check_network_sat
 
 
-def _adder(w: int) -> Table:
-    names = [f"a[{i}]" for i in range(w)] + [f"b[{i}]" for i in range(w)]
-
-    def fn(p):
-        s = (p & ((1 << w) - 1)) + (p >> w)
-        return [(s >> i & 1).astype(bool) for i in range(w + 1)]
-
-    return Table.from_function(names, [f"s[{i}]" for i in range(w + 1)], fn)
-
-
 def _eval_all(net: LutNetwork, n: int) -> list[int]:
     return [net.evaluate(p) for p in range(1 << n)]
 
 
 @pytest.mark.parametrize("w, k", [(3, 3), (4, 4), (6, 6), (6, 4)])
 def test_adder_matches_integer_addition(w, k):
-    t = _adder(w)
+    t = adder(w)
     net = map_luts(t, minimize(t), k=k)
     assert all(len(lut.inputs) <= k for lut in net.luts)
     mask = (1 << w) - 1
@@ -45,7 +36,7 @@ def test_adder_matches_integer_addition(w, k):
 
 def test_six_bit_adder_with_6_luts_is_within_half_again_of_the_bound():
     # the aim: at most 1.5x the LUT-count lower bound on the 6-bit adder with k = 6
-    t = _adder(6)
+    t = adder(6)
     net = map_luts(t, minimize(t), k=6)
     assert net.lower_bounds["count"] == 7  # seven different non-trivial outputs
     assert net.count <= 1.5 * net.lower_bounds["count"]
@@ -115,7 +106,7 @@ def test_random_tables_with_dont_cares(n, m, k, rnd):
 
 # -- SAT verification ------------------------------------------------------------------------------------------------
 def test_sat_check_agrees_with_enumeration_and_finds_a_real_counterexample():
-    t = _adder(4)
+    t = adder(4)
     net = map_luts(t, minimize(t), k=4)
     assert check_network_sat(t, net).passed
     # flip one INIT bit of the LUT driving the top sum bit
@@ -153,7 +144,7 @@ def test_wide_table_is_mapped_and_proven_without_enumerating():
 
 
 def test_bad_arguments():
-    t = _adder(2)
+    t = adder(2)
     with pytest.raises(ValueError, match="k must be between 2 and 8, not 9"):
         map_luts(t, minimize(t), k=9)
     with pytest.raises(TypeError, match="needs a Table"):
