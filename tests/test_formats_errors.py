@@ -3,6 +3,7 @@ one line on stderr and no traceback."""
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from pathlib import Path
 
 import pytest
@@ -140,32 +141,31 @@ def test_cover_reader_errors() -> None:
         parse_cover(".i 2\n.o 1\n1q 1\n", "c.pla")
 
 
+def _only_spec_errors(reader: Callable[[str, str], object], text: str, name: str) -> None:
+    """Reading ``text`` either succeeds or raises SpecError (whose line, when it names one, counts from 1)."""
+    try:
+        reader(text, name)
+    except SpecError as exc:
+        assert exc.line is None or exc.line >= 1
+
+
 @given(st.text(alphabet=".iopeltyb01-~xX# \n|fdr23", max_size=120))
 @settings(max_examples=300, deadline=None)
 def test_pla_garbage_only_spec_errors(text: str) -> None:
-    try:
-        parse_pla(text, "g.pla")
-    except SpecError as exc:
-        assert exc.line is None or exc.line >= 1
+    _only_spec_errors(parse_pla, text, "g.pla")
 
 
 @given(st.text(alphabet="ab:>=,;-x01\n#!\"2 ", max_size=80))
 @settings(max_examples=300, deadline=None)
 def test_csv_garbage_only_spec_errors(text: str) -> None:
-    try:
-        parse_csv(text, "g.csv")
-    except SpecError as exc:
-        assert exc.line is None or exc.line >= 1
+    _only_spec_errors(parse_csv, text, "g.csv")
 
 
 @given(st.lists(st.sampled_from(TOML_OK.splitlines() + ["[[rule]]", "set = { sq = 3 }", 'when = { addr = 7 }',
                                                          "x = ", '"', "[outputs]", "sq = 0"]), max_size=14))
 @settings(max_examples=200, deadline=None)
 def test_toml_shuffles_only_spec_errors(lines: list[str]) -> None:
-    try:
-        parse_design("\n".join(lines) + "\n", "g.toml")
-    except SpecError as exc:
-        assert exc.line is None or exc.line >= 1
+    _only_spec_errors(parse_design, "\n".join(lines) + "\n", "g.toml")
 
 
 def test_directory_as_spec_is_one_line(tmp_path: Path) -> None:
