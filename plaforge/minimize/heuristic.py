@@ -20,9 +20,12 @@ alone and identical terms are merged only afterwards.
 
 Column order
 ------------
-The minimizer's work (and memory) can depend on the order of the columns. Its columns are therefore sorted by a key
-computed from the rows alone (inputs tested by more rows first, then inputs more often tested at 1, then spec
-order) and the result mapped back, so permuting a spec's columns does not change the work beyond such ties.
+The minimizer's work (and memory) can depend on the order of the columns, badly so on wide tables. Above
+``ORDER_FROM`` inputs its columns are therefore sorted by a key computed from the rows alone (inputs tested by more
+rows first, then inputs more often tested at 1, then spec order) and the result mapped back, so permuting a spec's
+columns does not change the work beyond such ties. At or below it the spec's order is kept: there the cost does not
+blow up, and the starts below were measured in that order (sorting cost a row on some suite tables). Start B, the
+signature regions, always runs in the spec's order, so the path before the sorting is always among the candidates.
 
 Effort
 ------
@@ -71,6 +74,9 @@ __all__ = ["MINIMIZER_DEFAULTS", "decode_row", "encode_cube", "heuristic_cubes",
 
 #: Most inputs for which start B (signature regions) is tried (it enumerates the points).
 SIGNATURE_LIMIT = 16
+#: Above this many inputs the columns are sorted by a key from the rows (the cost of wide tables depends on the
+#: order); at or below it the spec's own order is kept, which the starts were tuned on.
+ORDER_FROM = 16
 #: ``normal`` effort: work after start A may run until this share of A's time has passed since A's answer ...
 EXTRA_SHARE = 0.1
 #: ... or this many seconds, whichever is longer.
@@ -160,7 +166,7 @@ def _job(n: int, m: int, kind: str, marked: Sequence[tuple[Sequence[Cube], int]]
                 if not (mark == 1 and entry[j] == 2 and kind == "fd"):
                     entry[j] = mark
                 outs ^= low
-    order = column_order(n, [Cube(care, value) for care, value in parts])
+    order = column_order(n, [Cube(care, value) for care, value in parts]) if n > ORDER_FROM else tuple(range(n))
     rows = frozenset((encode_cube(Cube(care, value), n, order), tuple(e)) for (care, value), e in parts.items())
     return Job(n, m, kind, rows, order)
 
@@ -264,9 +270,10 @@ def time_limit(options: MinimizeOptions, n: int, m: int, given: int) -> tuple[fl
 
 
 def _run_shared(job: Job, second: Job | None, bound_of: object, options: MinimizeOptions, limit: float,
-                note: str, progress: Progress) -> tuple[list[Row], int]:
-    """Start A (and B), then descents, as ``options.effort`` allows (module docs); the best result and the lower
-    bound ``bound_of()``, computed here while the starts run."""
+                note: str, progress: Progress) -> tuple[Job, list[Row], int]:
+    """Start A (and B), then descents, as ``options.effort`` allows (module docs); the best result with the job
+    it answers (their column orders differ) and the lower bound ``bound_of()``, computed here while the starts
+    run."""
     t0 = time.monotonic()
     deadline = t0 + limit
     effort = options.effort
@@ -279,7 +286,7 @@ def _run_shared(job: Job, second: Job | None, bound_of: object, options: Minimiz
     try:
         results.append((job, a.result(deadline - time.monotonic(), note)))  # type: ignore[union-attr]
         if effort == "fast" or len(results[0][1]) <= bound:
-            return results[0][1], bound
+            return job, results[0][1], bound
         t_a = time.monotonic() - t0
         extra_end = deadline if effort == "high" else min(deadline, time.monotonic() + max(EXTRA_SHARE * t_a,
                                                                                          EXTRA_FLOOR))
@@ -300,7 +307,8 @@ def _run_shared(job: Job, second: Job | None, bound_of: object, options: Minimiz
         for pending in (a, b):
             if pending is not None:
                 pending.stop()  # type: ignore[union-attr]
-    return min(results, key=lambda jr: _cost(jr[1]))[1], bound
+    best_job, best = min(results, key=lambda jr: _cost(jr[1]))
+    return best_job, best, bound
 
 
 def _decode(job: Job, rows: Sequence[Row], output: int | None = None) -> list[Cube]:
@@ -329,9 +337,9 @@ def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, regions
                                               for c in _decode(job, rows, k))), bound
         second = None
         if options.effort != "fast" and n <= SIGNATURE_LIMIT and m <= 64:
-            second = signature_job(n, m, regions_of(), first.order)  # type: ignore[operator]
-        rows, bound = _run_shared(first, second, bound_of, options, limit, note, progress)
-    return sort_cubes(merge_identical(_decode(first, rows))), bound
+            second = signature_job(n, m, regions_of(), tuple(range(n)))  # type: ignore[operator]
+        job, rows, bound = _run_shared(first, second, bound_of, options, limit, note, progress)
+    return sort_cubes(merge_identical(_decode(job, rows))), bound
 
 
 def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
