@@ -25,7 +25,7 @@ from plaforge.lut.mapper import tidy_network
 from plaforge.minimize import minimize
 from plaforge.verify.satcnf import check_network_any
 
-from .suite import SUITE, adder, adder_msb_first, fd_rows, machine, multiplier, onoff_rows, sine_table
+from .suite import SUITE, adder, adder_msb_first, fd_rows, machine, multiplier, onoff_rows, print_header, sine_table
 
 
 def two_level_luts(cover: Cover, k: int) -> LutNetwork:
@@ -90,8 +90,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     print()
     head = (f"{'function':<10} {'in':>3} {'out':>3} {'k':>2} | {'plaforge':>9} {'2-level':>9} {'lb':>7} | "
             f"{'ratio':>5} {'seconds':>7}  method")
-    print(head)
-    print("-" * len(head))
+    print_header(head)
     results = {}
     for name in names:
         entry = SUITE[name]
@@ -140,8 +139,7 @@ def aims() -> int:
     print("issue 12 aims (seconds: map_luts alone; the cover is minimized beforehand, or for the ON/OFF row list")
     print("the ON rows themselves, since minimizing that table is not what is measured here)")
     head = f"{'function':<22} {'k':>2} {'objective':<9} | {'count/depth':>11} {'lb':>7} {'seconds':>8} | aim"
-    print(head)
-    print("-" * len(head))
+    print_header(head)
     for label, build, k, objective, source, aim, met in AIMS:
         table = build()
         if source == "ON rows":

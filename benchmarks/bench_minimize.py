@@ -26,7 +26,7 @@ import sys
 import time
 from dataclasses import dataclass
 
-from benchmarks.suite import SUITE, machine
+from benchmarks.suite import SUITE, machine, print_header, verdict
 from plaforge.core.cube import Cover, Cube
 from plaforge.core.errors import InternalError
 from plaforge.core.table import Table, unpack_bits
@@ -127,8 +127,7 @@ def main(argv: list[str] | None = None) -> int:
     print(f"exact path: CP-SAT, time limit {args.time_limit:g} s per function, up to {args.exact_max_inputs} inputs")
     head = (f"{'function':<11}{'in':>3}{'out':>4} | {'ref rows':>8}{'lits':>7}{'s':>7} | {'heur rows':>9}{'lits':>7}"
             f"{'s':>7} | {'exact rows':>10}{'lits':>7}{'s':>7}  {'status':<18} | {'heur/ref':>8}{'exact/ref':>10}")
-    print(head)
-    print("-" * len(head))
+    print_header(head)
     failures: list[str] = []
     results: dict[str, tuple[Figure, Figure, Figure | None]] = {}
     for name in names:
@@ -164,10 +163,7 @@ def main(argv: list[str] | None = None) -> int:
                   f"{'strictly fewer' if ok else 'NOT fewer'}")
             if not ok:
                 failures.append(f"{name}: exact not strictly below heuristic and reference")
-    for f in failures:
-        print(f"FAIL {f}")
-    print("claims: all hold" if not failures else f"claims: {len(failures)} failed")
-    return 1 if failures else 0
+    return verdict(failures, "claims", "FAIL")
 
 
 if __name__ == "__main__":

@@ -26,7 +26,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from benchmarks.suite import machine
+from benchmarks.suite import machine, print_header, verdict
 from plaforge.core.cube import Cover, Cube
 from plaforge.core.errors import InternalError
 from plaforge.core.sets import given_sets
@@ -262,8 +262,7 @@ def main(argv: list[str] | None = None) -> int:
     print(f"machine: {machine()}")
     head = (f"{'table':<11}{'in':>3}{'out':>4}{'given':>7} | {'ref rows':>8}{'lits':>7}{'s':>8} | "
             f"{'rows':>6}{'lits':>7}{'s':>8}{'read s':>8} | {'time/ref':>8}")
-    print(head)
-    print("-" * len(head))
+    print_header(head)
     misses: list[str] = []
     for name in names:
         spec = every[name]()
@@ -289,10 +288,7 @@ def main(argv: list[str] | None = None) -> int:
         if name == "onoff20" and ratio >= 2:
             misses.append(f"{name}: {ratio:.2f}x the reference's time (aim: under 2x)")
     print()
-    for miss in misses:
-        print(f"MISS {miss}")
-    print("aims: all met" if not misses else f"aims: {len(misses)} missed")
-    return 1 if misses else 0
+    return verdict(misses, "aims", "MISS")
 
 
 if __name__ == "__main__":

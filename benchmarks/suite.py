@@ -354,3 +354,20 @@ def machine() -> str:
     except OSError:
         pass
     return f"{platform.machine()}, {os.cpu_count()} CPUs ({cpu}), Python {platform.python_version()}"
+
+
+def verdict(problems: list[str], kind: str, word: str) -> int:
+    """Print each problem as ``WORD problem`` and the closing line (``claims: all hold``), and return the exit
+    status a benchmark script gives: 1 when a check or claim failed."""
+    for problem in problems:
+        print(f"{word} {problem}")
+    print(f"{kind}: all {'hold' if kind == 'claims' else 'met'}" if not problems
+          else f"{kind}: {len(problems)} {'failed' if kind == 'claims' else 'missed'}")
+    return 1 if problems else 0
+
+
+def print_header(head: str) -> None:
+    """A table header line and its rule."""
+    print(head)
+    print("-" * len(head))
+

@@ -1,32 +1,10 @@
-"""plaforge: truth tables to jointly minimized PLA covers, k-LUT networks and Amaranth modules, with proof."""
+"""plaforge: truth tables to jointly minimized PLA covers, k-LUT networks and Amaranth modules, with proof.
 
-from .core import (
-    DEFAULT_ENUM_LIMIT,
-    ArtifactError,
-    Bus,
-    CheckFailed,
-    Cover,
-    Cube,
-    InternalError,
-    LimitReached,
-    LutNetwork,
-    PlaforgeError,
-    SpecError,
-    Table,
-)
+The package itself re-exports the core types (:mod:`plaforge.core`); readers, producers and checks live in their
+subpackages (see DEVELOPERS.md for the layers).
+"""
 
-__all__ = [
-    "DEFAULT_ENUM_LIMIT",
-    "ArtifactError",
-    "Bus",
-    "CheckFailed",
-    "Cover",
-    "Cube",
-    "InternalError",
-    "LimitReached",
-    "LutNetwork",
-    "PlaforgeError",
-    "SpecError",
-    "Table",
-]
+from .core import *  # the core types, exactly core.__all__
+from .core import __all__ as __all__
+
 __version__ = "0.1.0"

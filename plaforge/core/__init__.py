@@ -13,13 +13,13 @@ from .table import DEFAULT_ENUM_LIMIT, Bus, Table
 
 __all__ = [
     "DEFAULT_ENUM_LIMIT",
-    "Bus",
     "ArtifactError",
+    "Bus",
     "CheckFailed",
-    "InternalError",
-    "LimitReached",
     "Cover",
     "Cube",
+    "InternalError",
+    "LimitReached",
     "Lut",
     "LutNetwork",
     "PlaforgeError",

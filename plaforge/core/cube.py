@@ -303,8 +303,24 @@ def cube_list_contains(cubes: Sequence[Cube], cube: Cube) -> bool:
     return not _complement(cof)
 
 
+class NamedPorts:
+    """Shape of a value with ``input_names`` and ``output_names`` (a Cover, a Table)."""
+
+    __slots__ = ()
+    input_names: tuple[str, ...]
+    output_names: tuple[str, ...]
+
+    @property
+    def n_inputs(self) -> int:
+        return len(self.input_names)
+
+    @property
+    def n_outputs(self) -> int:
+        return len(self.output_names)
+
+
 @dataclass(frozen=True, slots=True)
-class Cover:
+class Cover(NamedPorts):
     """A multi-output two-level cover: shared product terms plus how it was obtained.
 
     Parameters
@@ -338,14 +354,6 @@ class Cover:
     seconds: float = 0.0
     cost: str = "shared"
     extra: tuple[tuple[str, object], ...] = field(default=(), compare=False)
-
-    @property
-    def n_inputs(self) -> int:
-        return len(self.input_names)
-
-    @property
-    def n_outputs(self) -> int:
-        return len(self.output_names)
 
     @property
     def rows(self) -> int:

@@ -25,7 +25,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .cube import Cube, SharpTooLarge, complement, cut_by_complement, merge_identical, sharp
+from .cube import Cube, NamedPorts, SharpTooLarge, complement, cut_by_complement, merge_identical, sharp
 from .errors import EnumerationLimit, SizeLimit
 
 __all__ = [
@@ -90,7 +90,7 @@ def _default_buses(names: Sequence[str]) -> tuple[Bus, ...]:
 
 
 @dataclass(frozen=True, eq=False)
-class Table:
+class Table(NamedPorts):
     """A multi-output incompletely specified function.
 
     Parameters
@@ -163,15 +163,6 @@ class Table:
             f"{self.n_outputs} outputs {list(self.output_names)[:8]}{'...' if self.n_outputs > 8 else ''}"
             f"{' from ' + self.source if self.source else ''}>"
         )
-
-    # -- shape ---------------------------------------------------------------------------------------------------
-    @property
-    def n_inputs(self) -> int:
-        return len(self.input_names)
-
-    @property
-    def n_outputs(self) -> int:
-        return len(self.output_names)
 
     # -- the three sets as cubes ---------------------------------------------------------------------------------
     def _set(self, j: int, kind: int) -> tuple[Cube, ...]:
