@@ -81,7 +81,7 @@ def build_report(result: object) -> str:
     if net is not None:
         lb = net.lower_bounds
         lines.append(
-            f"  LUT{net.k} network: {net.count} LUTs (lower bound {lb.get('count', '?')}), depth {net.depth} "
+            f"  {net.k}-input LUT network: {net.count} LUTs (lower bound {lb.get('count', '?')}), depth {net.depth} "
             f"(lower bound {lb.get('depth', '?')})"
         )
     for name, f in r.fit.items():  # type: ignore[attr-defined]

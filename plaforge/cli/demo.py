@@ -40,7 +40,7 @@ def _line(name: str, r: BuildResult, how: str, seconds: float) -> str:
         how = "proven minimum" if cov["optimal"] else \
             f"best in {DEMO_TIME_LIMIT:g} s, lower bound {cov['lower_bound']}"
     net = r.network
-    luts = f", {net.count} LUT{net.k} in depth {net.depth}" if net is not None else ""
+    luts = f", {net.count} {net.k}-input LUTs in depth {net.depth}" if net is not None else ""
     verdict = "pass" if r.passed else "FAIL"
     return (f"  {name}: {r.table.n_inputs} inputs, {r.table.n_outputs} outputs; {cov['rows']} product terms "
             f"({how}){luts}; {len(r.verdicts)} checks {verdict}; {seconds:.1f} s")
