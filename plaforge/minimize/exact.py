@@ -53,6 +53,8 @@ from .covering import (
     build_problem,
     greedy_cover,
     independent_targets_bound,
+    phase_lower_bound,
+    quick_lower_bound,
     reduce_problem,
 )
 from .options import MinimizeOptions
@@ -359,5 +361,10 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int, seed: 
                 stats += [(f"{k}:{key}" if per_output else key, v) for key, v in res.stats]
             cubes += [grp.to_table(c) for c in got]
             final_inv |= grp.inverted(sel) if grp.phase else inverted & sum(1 << j for j in grp.outputs)
+        if not optimal:  # a group stopped without its solver's bound: the cheap bounds, in the time that is left
+            left = max(0.1, deadline - time.monotonic())
+            quick = (phase_lower_bound(sets[0], sets[1], per_output, left) if options.phase
+                     else quick_lower_bound(fs, per_output, left))
+            bound = max(bound, quick)
     return checked_cover(table, cubes, options, final_inv, "exact", optimal, bound,
                          tuple(stats) + (("literals_optimal", lits_optimal),))
