@@ -23,7 +23,7 @@ LAYERS: tuple[tuple[str, tuple[str, ...]], ...] = (
     ("verify", ("plaforge.verify",)),
     ("producers", ("plaforge.minimize", "plaforge.lut", "plaforge.emit")),
     ("pipeline", ("plaforge.flow", "plaforge.report", "plaforge.checking", "plaforge.bundled", "plaforge.device",
-                  "plaforge.listing", "plaforge.pictures", "plaforge.report_html")),
+                  "plaforge.listing", "plaforge.pictures", "plaforge.report_html", "plaforge.batch")),
     ("cli", ("plaforge.cli", "plaforge.__main__")),
     ("api", ("plaforge",)),
 )

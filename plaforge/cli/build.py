@@ -3,9 +3,11 @@
 from __future__ import annotations
 
 import json
+import os
 
 import click
 
+from ..batch import build_many, expand_specs, worst_error
 from ..core.errors import CheckFailed
 from ..flow import BuildOptions, build
 from ..formats import read_spec
@@ -14,7 +16,7 @@ from .group import cli
 
 
 @cli.command("build")
-@click.argument("spec", type=click.Path())
+@click.argument("spec", nargs=-1, required=True, type=click.Path())
 @click.option("-o", "--output", "out", type=click.Path(), default="build", show_default=True,
               help="Directory for the artifacts.")
 @click.option("-k", "k", type=click.IntRange(2, 8), default=6, show_default=True, help="LUT input count.")
@@ -39,14 +41,20 @@ from .group import cli
 @click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
 @click.option("--device", "device", help="Fit to a device profile: a built-in name or a profile .toml file "
               "(see docs/devices.md).")
-@click.option("--json", "as_json", is_flag=True, help="Print one JSON object and nothing else.")
-def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: float, effort: str,
+@click.option("-j", "--jobs", "jobs", type=click.IntRange(min=1), default=None,
+              help="Worker processes for several specs [default: the machine's core count]; 1 builds them one "
+              "after another in this process.")
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object and nothing else (a list of them for "
+              "several specs).")
+def build_cmd(spec: tuple[str, ...], jobs: int | None, out: str, k: int, exact: bool, cost: str, time_limit: float, effort: str,
               budget_rows: int | None,
               budget_luts: int | None, hazard_free: str | None, changing: str | None, gates: str | None,
               max_fanin: str, name: str | None, phase: bool, device: str | None, as_json: bool) -> None:
     """Minimize SPEC, map it to LUTs, generate modules and Verilog, and check every artifact against SPEC.
 
-    Exit status 1 when a check fails or a result does not fit a budget.
+    Several specs (a directory: every .pla, .csv and .toml in it, sorted by name) build in parallel, each into its
+    own subfolder of DIR named after its design; one line per spec, then a summary. Exit status 1 when a check
+    fails or a result does not fit a budget; with several specs the worst status of them (4 > 3 > 2 > 1).
     """
     from ..core.errors import PlaforgeError
     from ..verify.hazards import changing_mask
@@ -57,13 +65,31 @@ def build_cmd(spec: str, out: str, k: int, exact: bool, cost: str, time_limit: f
     from ..device import load_profile
 
     profile = load_profile(device) if device is not None else None
-    table = read_spec(spec)
+    specs = expand_specs(spec)
+    if len(specs) > 1:
+        opts = BuildOptions(name=name, phase=phase, device=profile, k=k, exact=exact, cost=cost,
+                            time_limit=time_limit, effort=effort, budget_rows=budget_rows, budget_luts=budget_luts,
+                            hazard_free=hazard_free, gates=styles, max_fanin=int(max_fanin))
+        outcomes = build_many(specs, out, opts, changing=changing, jobs=jobs or os.cpu_count() or 1)
+        if as_json:
+            click.echo(json.dumps([o.to_json_obj() for o in outcomes], sort_keys=True))
+        else:
+            for o in outcomes:
+                click.echo(o.line)
+            ok = sum(o.status == 0 for o in outcomes)
+            click.echo(f"{len(outcomes)} specs into {out}/: {ok} built and checked, {len(outcomes) - ok} failed")
+        error = worst_error(outcomes)
+        if error is not None:
+            raise error
+        return
+    spec_path = specs[0]
+    table = read_spec(spec_path)
     opts = BuildOptions(name=name, phase=phase, device=profile, k=k, exact=exact, cost=cost, time_limit=time_limit, effort=effort,
                         budget_rows=budget_rows,
                         budget_luts=budget_luts, hazard_free=hazard_free,
                         changing=None if changing is None else changing_mask(table, changing), gates=styles,
                         max_fanin=int(max_fanin))
-    result = build(table, out, opts, spec_path=spec)
+    result = build(table, out, opts, spec_path=spec_path)
     if as_json:
         click.echo(json.dumps(result.to_json_obj(), sort_keys=True))
     else:
