@@ -52,7 +52,8 @@ def prove(table: Table, artifact: Cover | LutNetwork, *, enum_limit: int = DEFAU
     return sat_check_network(table, artifact, artifact=name)
 
 
-def _read_network(p: Path) -> LutNetwork:
+def read_network(p: Path) -> LutNetwork:
+    """Read a LUT network JSON file (docs/conventions.md); ArtifactError naming the file when it is not one."""
     try:
         obj = json.loads(p.read_text(encoding="utf-8"))
     except FileNotFoundError:
@@ -68,9 +69,6 @@ def _read_network(p: Path) -> LutNetwork:
             f"{p}: not a LUT network ({type(exc).__name__}: {exc}); expected keys k, inputs, outputs, luts"
         ) from None
 
-
-read_network = _read_network
-"""Read a LUT network JSON file (docs/conventions.md); ArtifactError naming the file when it is not one."""
 
 
 def _combine(proof: Verdict, witness: Verdict | None) -> Verdict:
@@ -166,7 +164,7 @@ def check_artifact(
     if suffix == ".pla":
         return prove(table, read_cover(p), enum_limit=enum_limit, name=name)
     if suffix == ".json":
-        return prove(table, _read_network(p), enum_limit=enum_limit, name=name)
+        return prove(table, read_network(p), enum_limit=enum_limit, name=name)
     if suffix == ".py":
         return _check_module(table, p, exhaustive_limit, samples, seed, simulate)
     if suffix == ".v":
