@@ -66,6 +66,7 @@ from ..core.sets import GivenSets, given_sets
 from ..core.table import FunctionSets, Table, signature_regions
 from .child import Isolated
 from .covering import quick_lower_bound
+from .off_bound import off_lower_bound
 from .options import MinimizeOptions
 from .progress import Progress
 from .result import checked_cover, sort_cubes, term_count
@@ -365,8 +366,8 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
     """Heuristic cover of ``table`` (outputs in ``inverted`` realized in complement), verified.
 
     ``lower_bound`` is :func:`plaforge.minimize.covering.quick_lower_bound` where the don't-cares are known as cubes
-    (1 when they are implicit, as under ``fr``, and some output has an ON cube); ``optimal`` is true only when the
-    cover meets it.
+    and :func:`plaforge.minimize.off_bound.off_lower_bound` where they are implicit (``fr``: ON points pairwise
+    separated by the OFF rows); ``optimal`` is true only when the cover meets it.
     """
     per_output = options.cost == "per-output"
     gs = given_sets(table, inverted)
@@ -387,7 +388,8 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
     def bound_of() -> int:
         if kind == "fd":
             return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, BOUND_SECONDS)
-        return 1 if any(ons) else 0  # implicit don't-cares: a bound would have to complement them
+        # implicit don't-cares: ON points pairwise separated by the OFF rows (nothing complemented)
+        return off_lower_bound(ons, others, n, per_output, BOUND_SECONDS)
 
     per = _per_output_jobs(n, kind, ons, others) if per_output else None
     cubes, bound = _minimized(n, m, first, per, regions, bound_of, given, options)
