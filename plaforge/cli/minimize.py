@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import os
 import sys
 
 import click
@@ -11,8 +12,9 @@ from .group import cli
 
 
 @cli.command("minimize")
-@click.argument("spec", type=click.Path())
-@click.option("-o", "--output", "out", type=click.Path(), help="Write the PLA cover here.")
+@click.argument("spec", nargs=-1, required=True, type=click.Path())
+@click.option("-o", "--output", "out", type=click.Path(), help="Write the PLA cover here (with several specs: a "
+              "directory, one DESIGN.pla per spec).")
 @click.option("--exact", is_flag=True, help="Prove a minimum cover (CP-SAT) instead of the fast heuristic.")
 @click.option("--time-limit", type=click.FloatRange(min=0.1), default=60.0, show_default=True,
               help="Seconds the whole minimization may spend; past it the exact path reports its best cover and "
@@ -30,63 +32,85 @@ from .group import cli
               "single-input changes); =all also makes the don't-cares ON.")
 @click.option("--changing", help="With --hazard-free: only these inputs or buses change (comma-separated names).")
 @click.option("--listing", is_flag=True, help="Also print each output's equation (sum of products in the spec's "
-              "names; docs/report.md).")
+              "names; docs/report.md). One spec only.")
 @click.option("--device", "device", help="Say whether the cover fits a device profile (a built-in name or a .toml "
               "file); exit 1 when it does not.")
-@click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else.")
-def minimize_cmd(spec: str, out: str | None, exact: bool, time_limit: float, memory_limit: int, cost: str,
-                 effort: str, phase: bool, hazard_free: str | None, changing: str | None, listing: bool, device: str | None,
-                 as_json: bool) -> None:
-    """Minimize SPEC jointly over all outputs and write the cover in PLA format."""
-    from ..core.fileio import refuse_clobbering, write_text_atomic
-    from ..formats import read_spec
-    from ..formats.pla import write_pla
-    from ..minimize import MinimizeOptions, cover_summary, format_summary, minimize
+@click.option("--name", "name", help="Design name written in the cover's header and the JSON [default: the spec's "
+              "[design] name, else its file name without the extension]. One spec only.")
+@click.option("-j", "--jobs", "jobs", type=click.IntRange(min=1), default=None,
+              help="Worker processes for several specs [default: the machine's core count]; 1 minimizes them one "
+              "after another in this process.")
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else (a "
+              "list of them for several specs).")
+def minimize_cmd(spec: tuple[str, ...], out: str | None, exact: bool, time_limit: float, memory_limit: int,
+                 cost: str, effort: str, phase: bool, hazard_free: str | None, changing: str | None, listing: bool,
+                 device: str | None, name: str | None, jobs: int | None, as_json: bool) -> None:
+    """Minimize SPEC jointly over all outputs and write the cover in PLA format.
 
+    Several specs (a directory: every .pla, .csv and .toml in it, sorted by name) are minimized in parallel, one
+    line per spec in the order given, then a summary; -o then names a directory that gets one DESIGN.pla per spec.
+    The exit status is the worst of them (4 > 3 > 2 > 1).
+    """
+    from ..batch import MinimizeJob, expand_specs, minimize_many, minimize_spec, worst_error
     from ..core.errors import CheckFailed, PlaforgeError
-    from ..device import fit, fit_lines, load_profile
+    from ..core.fileio import refuse_clobbering
+    from ..device import fit_lines, load_profile
+    from ..minimize import MinimizeOptions, format_summary
 
     if as_json and (listing or device):
         raise PlaforgeError("--json prints the figures only; leave out --listing and --device with it")
-    refuse_clobbering([("SPEC", spec)], [("-o", out)])
+    specs = expand_specs(spec)
+    several = len(spec) > 1 or any(os.path.isdir(s) for s in spec)
+    if several and name is not None:
+        raise PlaforgeError("--name names one design; with several specs each is named by its [design] name or "
+                            "file name")
+    if several and listing:
+        raise PlaforgeError("--listing prints one spec's equations; give one spec")
+    if not several:
+        refuse_clobbering([("SPEC", specs[0])], [("-o", out)])
     profile = load_profile(device) if device is not None else None
-    table = read_spec(spec)
     phase = phase or (profile is not None and profile.polarity)
     given = click.get_current_context().get_parameter_source("time_limit") is not click.core.ParameterSource.DEFAULT
     options = MinimizeOptions(exact=exact, time_limit=time_limit, cost=cost,  # type: ignore[arg-type]
-                              phase=phase, progress=not as_json and sys.stderr.isatty(), memory_limit=memory_limit,
-                              effort=effort, scale_time_limit=not given)  # type: ignore[arg-type]
-    cover = minimize(table, options)
-    added = []
-    if hazard_free is not None:
-        from ..minimize.hazards import added_terms, hazard_free_cover
-        from ..verify.hazards import changing_mask
-
-        ordinary = cover
-        cover = hazard_free_cover(table, cover, scope=hazard_free, changing=changing_mask(table, changing),
-                                  options=options)
-        added = added_terms(ordinary, cover)
-    if out is not None:
-        write_text_atomic(out, write_pla(cover, spec))
+                              phase=phase, progress=not as_json and not several and sys.stderr.isatty(),
+                              memory_limit=memory_limit, effort=effort,  # type: ignore[arg-type]
+                              scale_time_limit=not given)
+    job = MinimizeJob(options, hazard_free, changing, name, profile)
+    if several:
+        outcomes = minimize_many(specs, out, job, jobs=jobs or os.cpu_count() or 1)
+        if as_json:
+            click.echo(json.dumps([o.to_json_obj() for o in outcomes]))
+        else:
+            for o in outcomes:
+                click.echo(o.line)
+            ok = sum(o.status == 0 for o in outcomes)
+            into = f" into {out}/" if out is not None else ""
+            click.echo(f"{len(outcomes)} specs{into}: {ok} minimized, {len(outcomes) - ok} failed")
+        error = worst_error(outcomes)
+        if error is not None:
+            raise error
+        return
+    res = minimize_spec(specs[0], job, out)
+    cover = res.cover
     if as_json:
-        click.echo(json.dumps(cover_summary(cover)))
-    else:
-        click.echo(format_summary(cover))
-        if hazard_free is not None:
-            click.echo(f"hazard-free ({hazard_free}): {len(added)} terms added for static hazards" + (":" if added else ""))
-            m = cover.n_outputs
-            for c in added:
-                click.echo(f"  {c.text(cover.n_inputs)} {''.join('1' if c.outputs >> j & 1 else '0' for j in range(m))}")
-        if out is not None:
-            click.echo(f"cover written to {out}")
-        if listing:
-            from ..listing import listing_text
+        click.echo(json.dumps(res.to_json_obj()))
+        return
+    click.echo(format_summary(cover))
+    if hazard_free is not None:
+        added = res.added
+        click.echo(f"hazard-free ({hazard_free}): {len(added)} terms added for static hazards" + (":" if added else ""))
+        m = cover.n_outputs
+        for c in added:
+            click.echo(f"  {c.text(cover.n_inputs)} {''.join('1' if c.outputs >> j & 1 else '0' for j in range(m))}")
+    if out is not None:
+        click.echo(f"cover written to {out}")
+    if listing:
+        from ..listing import listing_text
 
-            click.echo("")
-            click.echo(listing_text(table, cover), nl=False)
-        if profile is not None:
-            result = fit(profile, table, cover, None)
-            click.echo("")
-            click.echo("\n".join(fit_lines(result)))
-            if not result["fits"]:
-                raise CheckFailed(f"the cover does not fit device {profile.name} (see above)")
+        click.echo("")
+        click.echo(listing_text(res.table, cover), nl=False)
+    if res.fit is not None:
+        click.echo("")
+        click.echo("\n".join(fit_lines(res.fit)))
+        if not res.fit["fits"]:
+            raise CheckFailed(f"the cover does not fit device {profile.name} (see above)")
