@@ -14,6 +14,15 @@ suffix    artifact                                      how
           ports)                                        ``simulate`` also iverilog, where it is installed
 ========  ===========================================  ============================================================
 
+A module or Verilog file whose netlist has flip-flops is a registered stage (``--registered``): every output a
+register on the rising edge of one clock port of its own (``clk``), with the synchronous reset ``rst``. It is checked
+with a one-cycle delay. The proof unrolls the netlist over one clock edge (:mod:`plaforge.verify.sat`): before the
+edge the inputs are the point and ``rst`` is low, the registers hold anything; after it each register holds its D
+input from before and the inputs are anything. Every output after the edge must then agree with the table at the
+point. That is exactly what the module promises its user, so the proof is sound, and it proves the logic feeding
+the registers (their D inputs) against the table. The simulations apply a vector, tick the clock, apply the next
+vector and only then read the outputs, so an output that is not registered is caught by them too.
+
 Every verdict is a proof; nothing the artifact embeds about itself (a generated module's ``PLAFORGE_ARTIFACT``
 lines) is trusted or needed. Simulation only adds witnesses: every point up to ``exhaustive_limit`` inputs, and with
 ``simulate`` the sampled vectors of :func:`plaforge.verify.vectors.sample_points` beyond, labelled as a sample.
@@ -34,7 +43,7 @@ from .verify.component import instantiate, load_module
 from .verify.equivalence import OutputVerdict, Verdict, check_cover, check_network
 from .verify.iverilog import have_iverilog, iverilog_points
 from .verify.netlist import netlist_of_component, netlist_of_verilog
-from .verify.sat import sat_check_cover, sat_check_netlist, sat_check_network
+from .verify.sat import register_ports, sat_check_cover, sat_check_netlist, sat_check_network
 from .verify.simulate import DEFAULT_SAMPLES, check_component, check_simulated, component_ports
 
 __all__ = ["check_artifact", "prove", "read_network"]
@@ -95,11 +104,12 @@ def _read_text(p: Path) -> str:
 def _check_module(table: Table, p: Path, exhaustive_limit: int, samples: int, seed: int, simulate: bool) -> Verdict:
     component = instantiate(load_module(p), str(p))
     component_ports(table, component, str(p))  # a component for another spec is named as such, before elaborating
-    proof = sat_check_netlist(table, netlist_of_component(component, str(p)), p.name)
+    net = netlist_of_component(component, str(p))
+    proof = sat_check_netlist(table, net, p.name)
     if table.n_inputs > exhaustive_limit and not simulate:
         return proof
     witness = check_component(table, component, exhaustive_limit=exhaustive_limit,
-                              samples=samples, seed=seed, artifact=p.name)
+                              samples=samples, seed=seed, artifact=p.name, registered=bool(net.flops))
     return _combine(proof, witness)
 
 
@@ -113,8 +123,10 @@ def _check_verilog(table: Table, p: Path, exhaustive_limit: int, samples: int, s
         out = tuple(OutputVerdict(o.name, o.passed, o.vectors, f"{o.method}; iverilog not installed, not simulated",
                                   o.failure, o.failures) for o in proof.outputs)
         return Verdict(proof.artifact, out)
-    witness = check_simulated(table, lambda pts: iverilog_points(table, text, net.top, pts, str(p)),
-                              "iverilog simulation", exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,
+    clock = register_ports(table, net, p.name) if net.flops else None
+    witness = check_simulated(table, lambda pts: iverilog_points(table, text, net.top, pts, str(p), clock),
+                              "iverilog simulation" + (", registered: outputs read one clock edge after each vector"
+                                                       if clock else ""), exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,
                               artifact=p.name)
     return _combine(proof, witness)
 

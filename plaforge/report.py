@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from .core.caution import CAUTION, caution
 from .core.table import Table
 from .verify.report import format_vector
 
@@ -9,12 +10,6 @@ __all__ = ["CAUTION", "table_summary"]
 
 #: Most inputs for which ``table_summary`` counts points (it enumerates them).
 POINTS_LIMIT = 20
-
-CAUTION = (
-    "Caution: combinational outputs can glitch while inputs change; register them or prove the hazard harmless. "
-    "Close timing in the device flow, follow the device maker's documentation, and have the logic reviewed before "
-    "any safety-relevant use."
-)
 
 
 def _fmt_sets(table: Table, j: int) -> str:
@@ -107,5 +102,5 @@ def build_report(result: object) -> str:
                 lines.append(f"    {key:<11} {o.name}: FAIL at {format_vector(t, p)}: expected {exp}, got {got}")
     for note in r.notes:  # type: ignore[attr-defined]
         lines.append(f"  note: {note}")
-    lines.append(CAUTION)
+    lines.append(caution(bool(getattr(r, "registered", False))))
     return "\n".join(lines)

@@ -41,6 +41,9 @@ from .group import cli
 @click.option("--phase", is_flag=True, help="Choose each output's polarity to lower the cost (inverted outputs).")
 @click.option("--device", "device", help="Fit to a device profile: a built-in name or a profile .toml file "
               "(see docs/devices.md).")
+@click.option("--registered", is_flag=True,
+              help="Register every output of the modules and Verilog in a clocked stage (ports clk and rst); their "
+                   "checks prove the logic with a one-cycle delay.")
 @click.option("-j", "--jobs", "jobs", type=click.IntRange(min=1), default=None,
               help="Worker processes for several specs [default: the machine's core count]; 1 builds them one "
               "after another in this process.")
@@ -49,7 +52,8 @@ from .group import cli
 def build_cmd(spec: tuple[str, ...], jobs: int | None, out: str, k: int, exact: bool, cost: str, time_limit: float, effort: str,
               budget_rows: int | None,
               budget_luts: int | None, hazard_free: str | None, changing: str | None, gates: str | None,
-              max_fanin: str, name: str | None, phase: bool, device: str | None, as_json: bool) -> None:
+              max_fanin: str, name: str | None, phase: bool, device: str | None, registered: bool,
+              as_json: bool) -> None:
     """Minimize SPEC, map it to LUTs, generate modules and Verilog, and check every artifact against SPEC.
 
     Several specs (a directory: every .pla, .csv and .toml in it, sorted by name) build in parallel, each into its
@@ -69,7 +73,7 @@ def build_cmd(spec: tuple[str, ...], jobs: int | None, out: str, k: int, exact: 
     if len(specs) > 1:
         opts = BuildOptions(name=name, phase=phase, device=profile, k=k, exact=exact, cost=cost,
                             time_limit=time_limit, effort=effort, budget_rows=budget_rows, budget_luts=budget_luts,
-                            hazard_free=hazard_free, gates=styles, max_fanin=int(max_fanin))
+                            hazard_free=hazard_free, gates=styles, max_fanin=int(max_fanin), registered=registered)
         outcomes = build_many(specs, out, opts, changing=changing, jobs=jobs or os.cpu_count() or 1)
         if as_json:
             click.echo(json.dumps([o.to_json_obj() for o in outcomes], sort_keys=True))
@@ -88,7 +92,7 @@ def build_cmd(spec: tuple[str, ...], jobs: int | None, out: str, k: int, exact: 
                         budget_rows=budget_rows,
                         budget_luts=budget_luts, hazard_free=hazard_free,
                         changing=None if changing is None else changing_mask(table, changing), gates=styles,
-                        max_fanin=int(max_fanin))
+                        max_fanin=int(max_fanin), registered=registered)
     result = build(table, out, opts, spec_path=spec_path)
     if as_json:
         click.echo(json.dumps(result.to_json_obj(), sort_keys=True))

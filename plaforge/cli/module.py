@@ -31,8 +31,11 @@ from .group import cli
 @click.option("--from", "made", type=click.Path(),
               help="Use this cover (.pla) or LUT network (.json) made earlier instead of computing one; it is "
                    "checked against SPEC first (exit 1 when it does not match).")
+@click.option("--registered", is_flag=True,
+              help="Register every output in a clocked stage (Amaranth's sync domain: ports clk and rst), so the "
+                   "outputs follow the inputs one clock cycle later; check proves it with that delay.")
 def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: int, max_fanin: str,
-               harness: str | None, name: str | None, phase: bool, made: str | None) -> None:
+               harness: str | None, name: str | None, phase: bool, made: str | None, registered: bool) -> None:
     """Generate an Amaranth component implementing SPEC."""
     from ..core.fileio import refuse_clobbering, write_text_atomic
     from ..emit.amaranth import module_source
@@ -56,10 +59,10 @@ def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: i
         artifact = realize(table, style, k=k, max_fanin=int(max_fanin), minimize_options=MinimizeOptions(phase=phase))
     if isinstance(artifact, GateNetwork):
         source = gates_module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec),
-                                     class_name=names.class_name)
+                                     class_name=names.class_name, registered=registered)
     else:
         source = module_source(table, artifact, source_name=Path(spec).name, source_digest=spec_digest(spec),
-                               class_name=names.class_name)
+                               class_name=names.class_name, registered=registered)
     if out is None:
         click.echo(source, nl=False)
     else:
@@ -71,16 +74,18 @@ def module_cmd(spec: str, out: str | None, verilog: str | None, style: str, k: i
         from ..flow import verilog_header
 
         if isinstance(artifact, GateNetwork):
-            text = gates_verilog_source(table, artifact, names.module)
+            text = gates_verilog_source(table, artifact, names.module, registered=registered)
         else:
             what = f"{names.module}: {style} realization"
             text = readable_verilog(table, artifact, names.module,
-                                    verilog_header(table, what, Path(spec).name, spec_digest(spec)))
+                                    verilog_header(table, what, Path(spec).name, spec_digest(spec), registered),
+                                    registered=registered)
         write_text_atomic(verilog, text)
         if out is not None:
             click.echo(f"verilog: {verilog}")
     if harness is not None and out is not None:
         from ..emit.harness import harness_source
 
-        write_text_atomic(harness, harness_source(table, Path(out).stem, source_name=Path(spec).name))
+        write_text_atomic(harness, harness_source(table, Path(out).stem, source_name=Path(spec).name,
+                                                  registered=registered))
         click.echo(f"harness: {harness}")

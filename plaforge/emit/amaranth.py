@@ -14,15 +14,21 @@ length 88, and clean under ``ruff check``) from the artifact's :class:`plaforge.
 The file also carries what it realizes as data (``PLAFORGE_ARTIFACT``, :func:`plaforge.core.serial.artifact_lines`)
 for readers and tools; ``plaforge check`` does not trust it: it proves the component's own logic.
 
+With ``registered``, every output is instead a register in Amaranth's ``sync`` domain loaded from that same logic
+(``m.d.sync``), so the outputs follow the inputs one clock cycle later; see :data:`plaforge.emit.plan.REGISTERED_NOTE`
+for what the file says about it and :mod:`plaforge.verify.sat` for how ``plaforge check`` proves such a module.
+
 ``elaborate`` calls helper methods of at most :data:`STATEMENTS_PER_METHOD` statements each, which keeps
 elaboration fast (see there); the signals they share are lists (``t[k]`` named ``tk``, ``n[k]`` named as the LUT).
 """
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Sequence
 from typing import Any
 
+from ..core.caution import caution
 from ..core.cube import Cover
 from ..core.names import GENERATED_FILE_NAMES, Port, class_name_for, identifier
 from ..core.network import LutNetwork, init_hex
@@ -30,7 +36,7 @@ from ..core.serial import artifact_lines
 from ..core.table import Table
 from ..verify.component import instantiate, load_source
 from .layout import LINE_LENGTH, Call, Chain, Node, layout, py_string, seq_lines
-from .plan import LogicPlan, Ref, plan_for
+from .plan import REGISTERED_NOTE, LogicPlan, Ref, check_clock_ports, plan_for
 
 __all__ = ["OR_CHAIN_LIMIT", "STATEMENTS_PER_METHOD", "build_component", "module_source"]
 
@@ -65,8 +71,8 @@ def _literals(plan: LogicPlan, care: int, value: int) -> list[str]:
     return lits
 
 
-def _comb(target: str, expr: Node, module: str = "m") -> list[str]:
-    return layout(Call(f"{target}.eq", (expr,)), 8, f"{module}.d.comb += ", "")
+def _comb(target: str, expr: Node, module: str = "m", domain: str = "comb") -> list[str]:
+    return layout(Call(f"{target}.eq", (expr,)), 8, f"{module}.d.{domain} += ", "")
 
 
 OR_CHAIN_LIMIT = 16
@@ -86,8 +92,9 @@ and on Python 3.11 finding a line costs time in proportion to the size of the fu
 cover of a thousand terms took ten times longer to elaborate than the same statements in methods of this size."""
 
 
-def _sop_groups(plan: LogicPlan, table: Table) -> tuple[list[list[str]], list[list[str]]]:
-    """Statements (as lines, each a group of one statement) of the product terms and of the outputs."""
+def _sop_groups(plan: LogicPlan, table: Table, out: str = "comb") -> tuple[list[list[str]], list[list[str]]]:
+    """Statements (as lines, each a group of one statement) of the product terms and of the outputs (driven in
+    domain ``out``)."""
     terms: list[list[str]] = []
     for k, (care, value) in enumerate(plan.nodes):
         feeds = [table.output_names[j] for j, (ts, _) in enumerate(plan.outputs) if k in ts]
@@ -99,17 +106,17 @@ def _sop_groups(plan: LogicPlan, table: Table) -> tuple[list[list[str]], list[li
         target = _out_ref(plan, j)
         names = [f"t[{k}]" for k in ts]
         if not names:  # a constant output (see LogicPlan)
-            outs.append(_comb(target, "1" if inverted else "0"))
+            outs.append(_comb(target, "1" if inverted else "0", domain=out))
         elif inverted:
             outs.append([f"        inv{j} = Signal()  # {table.output_names[j]} is realized in complement"[
-                :LINE_LENGTH].rstrip(), *_comb(f"inv{j}", _or(names)), *_comb(target, f"~inv{j}")])
+                :LINE_LENGTH].rstrip(), *_comb(f"inv{j}", _or(names)), *_comb(target, f"~inv{j}", domain=out)])
         else:
-            outs.append(_comb(target, _or(names)))
+            outs.append(_comb(target, _or(names), domain=out))
     return terms, outs
 
 
-def _lut_groups(plan: LogicPlan) -> tuple[list[list[str]], list[list[str]]]:
-    """Statements of the LUTs and of the outputs (LUT ``k`` is ``n[k]``)."""
+def _lut_groups(plan: LogicPlan, out: str = "comb") -> tuple[list[list[str]], list[list[str]]]:
+    """Statements of the LUTs and of the outputs (LUT ``k`` is ``n[k]``; outputs driven in domain ``out``)."""
 
     def ref_text(r: Ref) -> str:
         kind, v = r
@@ -121,7 +128,8 @@ def _lut_groups(plan: LogicPlan) -> tuple[list[list[str]], list[list[str]]]:
 
     nodes = [_comb(f"n[{k}]", Call("lut", (init_hex(init, len(fanins)), *(ref_text(r) for r in fanins))), "m")
              for k, (_, fanins, init) in enumerate(plan.nodes)]
-    outs = [_comb(_out_ref(plan, j), str(r[1]) if r[0] == "const" else ref_text(r)) for j, r in enumerate(plan.outputs)]
+    outs = [_comb(_out_ref(plan, j), str(r[1]) if r[0] == "const" else ref_text(r), domain=out)
+            for j, r in enumerate(plan.outputs)]
     return nodes, outs
 
 
@@ -138,11 +146,12 @@ def _methods(name: str, groups: list[list[str]], params: str, doc: str) -> tuple
     return calls, defs
 
 
-def _class_body(plan: LogicPlan, table: Table) -> list[str]:
+def _class_body(plan: LogicPlan, table: Table, registered: bool = False) -> list[str]:
     """``elaborate`` and its helper methods."""
     lines = ["    def elaborate(self, platform):", "        m = Module()"]
+    domain = "sync" if registered else "comb"
     if plan.style == "sop":
-        terms, outs = _sop_groups(plan, table)
+        terms, outs = _sop_groups(plan, table, domain)
         calls, defs = [], []
         if terms:
             lines += [
@@ -154,9 +163,10 @@ def _class_body(plan: LogicPlan, table: Table) -> list[str]:
             ]
             calls, defs = _methods("_product_terms", terms, "terms, t", "Product terms: each the AND of its literals.")
         o_calls, o_defs = _methods("_outputs", outs, "m, t" if terms else "m",
-                                   "Outputs: the OR of their product terms (Cat(...).any() when many).")
+                                   "Outputs: the OR of their product terms (Cat(...).any() when many)."
+                                   if not registered else "Output registers, each loaded with the OR of its terms.")
     else:
-        nodes, outs = _lut_groups(plan)
+        nodes, outs = _lut_groups(plan, domain)
         calls, defs = [], []
         if nodes:
             names = [py_string(local) for local, _, _ in plan.nodes]
@@ -165,14 +175,19 @@ def _class_body(plan: LogicPlan, table: Table) -> list[str]:
             lines += seq_lines("names = ", names, 8)
             lines.append("        n = [Signal(name=name) for name in names]")
             calls, defs = _methods("_luts", nodes, "m, n", "LUTs, each a constant INIT indexed by its fan-ins.")
-        o_calls, o_defs = _methods("_outputs", outs, "m, n" if nodes else "m", "Outputs.")
+        o_calls, o_defs = _methods("_outputs", outs, "m, n" if nodes else "m",
+                                   "Output registers, each loaded from its driver." if registered else "Outputs.")
+    if registered:
+        o_calls = ["        # Outputs: registers in the sync domain (clock clk, reset rst), loaded at every",
+                   "        # rising clock edge: they follow the inputs one clock cycle later.", *o_calls]
     return lines + calls + o_calls + ["        return m"] + defs + o_defs
 
 
-def _docstring(plan: LogicPlan, table: Table, class_name: str, source_name: str, source_digest: str) -> list[str]:
+def _docstring(plan: LogicPlan, table: Table, class_name: str, source_name: str, source_digest: str,
+               registered: bool = False) -> list[str]:
     src = source_name or table.source or "an unnamed table"
     lines = [
-        f'"""{class_name}: combinational logic generated by plaforge from {src}.',
+        f'"""{class_name}: {"registered" if registered else "combinational"} logic generated by plaforge from {src}.',
         "",
         f"Source: {src}",
         f"SHA-256: {source_digest or 'not recorded'}",
@@ -186,14 +201,10 @@ def _docstring(plan: LogicPlan, table: Table, class_name: str, source_name: str,
         kind = f"{'In' if p.direction == 'in' else 'Out'}({p.width})"
         spec = p.spec_name if p.scalar else f"{p.spec_name}[0..{p.width - 1}]"
         lines.append(f"    {spec} -> {p.name}: {kind}")
-    lines += [
-        "",
-        "Caution: this is raw combinational logic. Its outputs can glitch while inputs change",
-        "(register them if that matters), its timing is whatever your toolchain makes of it,",
-        "and don't-care points take whatever value the realization gives them. Review it and",
-        "time it in your own flow before relying on it.",
-        '"""',
-    ]
+    if registered:
+        lines += ["", *textwrap.wrap(REGISTERED_NOTE, LINE_LENGTH)]
+    lines += ["", *textwrap.wrap(caution(registered), LINE_LENGTH),
+              "Don't-care points take whatever value the realization gives them.", '"""']
     return [ln.replace("\\", "/").replace('"""', "'''") if 0 < k < len(lines) - 1 else ln
             for k, ln in enumerate(lines)]
 
@@ -205,6 +216,7 @@ def module_source(
     source_name: str = "",
     source_digest: str = "",
     class_name: str | None = None,
+    registered: bool = False,
 ) -> str:
     """A stand-alone Python file defining one Amaranth component that realizes ``artifact``.
 
@@ -219,6 +231,9 @@ def module_source(
     class_name : str, optional
         The component's class name; derived from ``source_name`` when omitted (see
         :func:`plaforge.core.names.class_name_for`).
+    registered : bool
+        Drive every output from a register in Amaranth's ``sync`` domain, loaded from the combinational logic at
+        every rising clock edge (:data:`REGISTERED_NOTE`); the component then has the domain's ``clk`` and ``rst``.
 
     Returns
     -------
@@ -232,14 +247,18 @@ def module_source(
     ValueError
         If ``class_name`` is not an identifier the file can use (one :func:`plaforge.core.names.identifier` leaves
         as it is).
+    PlaforgeError
+        If ``registered`` and the spec has a port named ``clk`` or ``rst`` (:func:`plaforge.emit.plan.check_clock_ports`).
     """
     plan = plan_for(table, artifact)
+    if registered:
+        check_clock_ports(plan.ports)
     name = class_name if class_name is not None else class_name_for(source_name or table.source)
     if identifier(name, GENERATED_FILE_NAMES) != name:
         raise ValueError(f"class name {name!r} is not usable; give a Python identifier such as 'AddressDecoder'")
     many = plan.style == "sop" and any(len(ts) > OR_CHAIN_LIMIT for ts, _ in plan.outputs)
     names = ["Module", "Signal"] + (["Cat", "Const"] if plan.style == "lut" else ["Cat"] if many else [])
-    lines = _docstring(plan, table, name, source_name, source_digest)
+    lines = _docstring(plan, table, name, source_name, source_digest, registered)
     lines += ["", f"from amaranth.hdl import {', '.join(sorted(names))}", "from amaranth.lib import wiring",
               "from amaranth.lib.wiring import In, Out", "", f'__all__ = ["{name}"]', ""]
     lines.append("# What this module realizes, as data for readers and tools (a check proves the logic itself): JSON")
@@ -259,7 +278,7 @@ def module_source(
     for p in plan.ports:
         lines.append(f"    {p.name}: {'In' if p.direction == 'in' else 'Out'}({p.width})")
     lines.append("")
-    lines += _class_body(plan, table)
+    lines += _class_body(plan, table, registered)
     return "\n".join(lines) + "\n"
 
 
@@ -268,7 +287,8 @@ def _doc_src(s: str) -> str:
     return s
 
 
-def build_component(table: Table, artifact: Cover | LutNetwork, *, class_name: str | None = None) -> Any:
+def build_component(table: Table, artifact: Cover | LutNetwork, *, class_name: str | None = None,
+                    registered: bool = False) -> Any:
     """The component :func:`module_source` writes, built in-process (the same text, run without a file).
 
     Parameters
@@ -277,6 +297,8 @@ def build_component(table: Table, artifact: Cover | LutNetwork, *, class_name: s
     artifact : Cover or LutNetwork
         What to realize; :func:`plaforge.flow.realize` makes one from a table and a style.
     class_name : str, optional
+        As for :func:`module_source`.
+    registered : bool
         As for :func:`module_source`.
 
     Returns
@@ -292,6 +314,6 @@ def build_component(table: Table, artifact: Cover | LutNetwork, *, class_name: s
         m.submodules.decoder = decoder
         m.d.comb += decoder.addr.eq(self.bus.addr)
     """
-    source = module_source(table, artifact, class_name=class_name)
+    source = module_source(table, artifact, class_name=class_name, registered=registered)
     where = f"<component for {table.source or 'a table'}>"
     return instantiate(load_source(source, where), where)

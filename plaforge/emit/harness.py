@@ -16,7 +16,8 @@ Data it carries:
 The file finds the module's component with the source of :func:`plaforge.verify.component.component_class`, and
 names a failing vector port by port (buses in hex with their width) with the source of
 :func:`plaforge.verify.report.describe_point`, as ``plaforge check`` does; it also counts the failing vectors.
-Don't-care points are never judged.
+Don't-care points are never judged. For a registered module (``registered``) it applies each vector, lets the clock
+rise once, applies the next vector and only then reads the outputs: the one-cycle delay ``plaforge check`` proves.
 """
 
 from __future__ import annotations
@@ -43,7 +44,7 @@ _TEMPLATE = '''"""Checks @@MODULE@@.py against @@SOURCE@@, output by output (gen
 
 Runs Amaranth's simulator on the component in @@MODULE@@.py (kept in this directory) and
 compares every output with the spec, which this file carries as data. Don't-care points
-are skipped. Vectors: @@VECTORS@@.
+are skipped. Vectors: @@VECTORS@@.@@REGISTERED_DOC@@
 Needs only amaranth and pytest: python -m pytest THIS_FILE.py
 """
 
@@ -98,21 +99,7 @@ def _permute(value, order):
 
 @@EXPECT@@
 
-def _simulate(dut, points):
-    ins = Cat(*(getattr(dut, name) for name in IN_PORTS))
-    outs = Cat(*(getattr(dut, name) for name in OUT_PORTS))
-    identity = list(IN_ORDER) == list(range(len(IN_ORDER)))
-    raw = []
-
-    async def bench(ctx):
-        for p in points:
-            if IN_PORTS:
-                ctx.set(ins, p if identity else _permute(p, IN_ORDER))
-            raw.append(ctx.get(outs))
-
-    sim = Simulator(dut)
-    sim.add_testbench(bench)
-    sim.run()
+@@SIMULATE@@
     inverse = [0] * len(OUT_ORDER)
     for q, j in enumerate(OUT_ORDER):
         inverse[j] = q
@@ -204,6 +191,47 @@ def _expected():
 '''
 
 
+_SIMULATE = '''def _simulate(dut, points):
+    ins = Cat(*(getattr(dut, name) for name in IN_PORTS))
+    outs = Cat(*(getattr(dut, name) for name in OUT_PORTS))
+    identity = list(IN_ORDER) == list(range(len(IN_ORDER)))
+    raw = []
+
+    async def bench(ctx):
+        for p in points:
+            if IN_PORTS:
+                ctx.set(ins, p if identity else _permute(p, IN_ORDER))
+            raw.append(ctx.get(outs))
+
+    sim = Simulator(dut)
+    sim.add_testbench(bench)
+    sim.run()'''
+
+_SIMULATE_REGISTERED = '''def _simulate(dut, points):
+    ins = Cat(*(getattr(dut, name) for name in IN_PORTS))
+    outs = Cat(*(getattr(dut, name) for name in OUT_PORTS))
+    full = (1 << N_INPUTS) - 1
+    raw = []
+
+    async def bench(ctx):
+        # The outputs are registers: apply a vector, let the clock rise once (rst stays
+        # low), apply the next vector, then read. A registered output still shows the
+        # vector before the edge; one that followed the new inputs would fail.
+        for k, p in enumerate(points):
+            if IN_PORTS:
+                ctx.set(ins, _permute(p, IN_ORDER))
+            await ctx.tick()
+            if IN_PORTS:
+                after = points[k + 1] if k + 1 < len(points) else ~p & full
+                ctx.set(ins, _permute(after, IN_ORDER))
+            raw.append(ctx.get(outs))
+
+    sim = Simulator(dut)
+    sim.add_clock(1e-6)
+    sim.add_testbench(bench)
+    sim.run()'''
+
+
 def _tuple(items: list[str]) -> str:
     return "\n".join(seq_lines("", items))
 
@@ -221,6 +249,7 @@ def harness_source(
     limit: int = HARNESS_LIMIT,
     samples: int = DEFAULT_SAMPLES,
     seed: int = 1,
+    registered: bool = False,
 ) -> str:
     """The text of a pytest file checking the module ``module_stem + ".py"`` against ``table``.
 
@@ -235,6 +264,9 @@ def harness_source(
     limit : int
         Carry the whole truth table and drive every point up to this many inputs; beyond, carry cubes and drive
         corners plus ``samples`` random points from ``seed``.
+    registered : bool
+        The module's outputs are registers (``--registered``): the file reads them one clock edge after each vector,
+        with the next vector already applied.
 
     Returns
     -------
@@ -291,6 +323,10 @@ def harness_source(
     src = (source_name or table.source or "its spec").replace("\\", "/").replace('"', "'")
     out = _TEMPLATE
     for key, value in (
+        ("@@SIMULATE@@", _SIMULATE_REGISTERED if registered else _SIMULATE),
+        ("@@REGISTERED_DOC@@", "\nThe outputs are registered: each is read one clock edge after its vector, once\n"
+         "the next vector is applied."
+         if registered else ""),
         ("@@FINDER@@", _embedded(component_class)),
         ("@@DESCRIBE@@", _embedded(describe_point)),
         ("@@IN_NAMES@@", _tuple([py_string(p.spec_name) for p in in_ports])),

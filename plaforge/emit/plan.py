@@ -16,12 +16,38 @@ from dataclasses import dataclass
 from typing import Any
 
 from ..core.cube import Cover
-from ..core.errors import ArtifactError
+from ..core.errors import ArtifactError, PlaforgeError
 from ..core.names import GENERATED_FILE_NAMES, Port, check_names, identifier, ports_of, unique_names
 from ..core.network import LutNetwork
 from ..core.table import Table
 
-__all__ = ["LogicPlan", "Ref", "plan_for"]
+__all__ = ["CLOCK_PORTS", "REGISTERED_NOTE", "LogicPlan", "Ref", "check_clock_ports", "plan_for"]
+
+CLOCK_PORTS = ("clk", "rst")
+"""The ports a registered module adds: Amaranth's ``sync`` domain's clock and synchronous reset, by its names."""
+
+REGISTERED_NOTE = (
+    "Registered: every output is a register in the sync domain (clock clk, synchronous reset rst, reset value 0), "
+    "loaded at every rising clock edge from the combinational logic, so the outputs follow the inputs one clock "
+    "cycle later. plaforge check proves that logic with that delay: after one rising edge with rst low, every "
+    "output agrees with the spec at the inputs applied before the edge."
+)
+"""What a registered module (or Verilog module) says about its register stage."""
+
+
+def check_clock_ports(ports: tuple[Port, ...]) -> None:
+    """Refuse a registered module whose spec already has a port named ``clk`` or ``rst`` (the ports it adds).
+
+    Raises
+    ------
+    PlaforgeError
+        Naming the port (exit status 2).
+    """
+    for p in ports:
+        if p.name in CLOCK_PORTS:
+            raise PlaforgeError(f"--registered adds the ports {' and '.join(CLOCK_PORTS)}, but the spec's "
+                                f"{'input' if p.direction == 'in' else 'output'} {p.spec_name!r} is already named "
+                                f"{p.name!r}; rename it in the spec")
 
 Ref = tuple[str, int]
 """A signal reference in a plan: ``("in", i)`` table input ``i``, ``("node", k)`` node ``k``, ``("const", v)``."""

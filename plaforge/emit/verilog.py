@@ -5,6 +5,8 @@ caller supplies (source, digest, figures, cautions), `` `timescale 1ns / 1ps``, 
 the component's port names (:func:`plaforge.core.names.ports_of`), one named wire per product term (``pt0``, ...)
 or per LUT (named after the LUT), and one ``assign`` per output. A LUT is a sized constant indexed by the
 concatenation of its fan-ins, fan-in 0 the least significant index bit (the INIT order of docs/conventions.md).
+With ``registered`` the ports ``clk`` and ``rst`` come first and the outputs are registers loaded in one ``always``
+block at the rising edge of ``clk`` (cleared while ``rst`` is high), the stage a registered Amaranth module has.
 
 :func:`verilog_source` converts a generated Amaranth component with the backend
 (``amaranth.back.verilog.convert``, with the Yosys it bundles).
@@ -25,6 +27,7 @@ from ..core.names import VERILOG_KEYWORDS, Port, check_names, identifier, ports_
 from ..core.network import LutNetwork
 from ..core.table import Table
 from ..verify.component import instantiate, load_source
+from .plan import CLOCK_PORTS, check_clock_ports
 
 __all__ = ["TIMESCALE", "readable_verilog", "renamed_ports", "verilog_name", "verilog_source"]
 
@@ -91,18 +94,34 @@ def _bit_names(ports: Sequence[Port], direction: str, count: int) -> list[str]:
     return names
 
 
-def _declarations(ports: Sequence[Port]) -> list[str]:
+def _declarations(ports: Sequence[Port], registered: bool = False) -> list[str]:
     width = max((len(f"[{p.width - 1}:0]") for p in ports if not p.scalar), default=0)
     lines = []
-    for k, p in enumerate(ports):
-        rng = "" if p.scalar else f"[{p.width - 1}:0]"
-        kind = "input " if p.direction == "in" else "output"
-        comma = "," if k < len(ports) - 1 else ""
-        lines.append(f"    {kind} wire {rng:<{width}} {p.name}{comma}" if width else f"    {kind} wire {p.name}{comma}")
+    decls = [("input ", "wire", name, "") for name in CLOCK_PORTS] if registered else []
+    decls += [("input " if p.direction == "in" else "output", "reg " if registered and p.direction == "out" else "wire",
+               p.name, "" if p.scalar else f"[{p.width - 1}:0]") for p in ports]
+    for k, (kind, net, name, rng) in enumerate(decls):
+        comma = "," if k < len(decls) - 1 else ""
+        lines.append(f"    {kind} {net} {rng:<{width}} {name}{comma}" if width else f"    {kind} {net} {name}{comma}")
     return lines
 
 
-def _sop_body(table: Table, cover: Cover, ports: Sequence[Port]) -> list[str]:
+def _outputs(drives: Sequence[tuple[str, str]], ports: Sequence[Port], registered: bool) -> list[str]:
+    """``assign`` per output bit; registered: one ``always`` block loading every output at the rising clock edge,
+    all outputs 0 while ``rst`` is high (the reset of Amaranth's ``sync`` domain)."""
+    if not registered:
+        return [f"    assign {target} = {expr};" for target, expr in drives]
+    lines = ["    // registered: at each rising edge of clk every output loads its value below (0 while rst is high),",
+             "    // so the outputs follow the inputs one clock cycle later",
+             "    always @(posedge clk) begin", "        if (rst) begin"]
+    lines += [f"            {p.name} <= {p.width}'d0;" for p in ports if p.direction == "out"]
+    lines.append("        end else begin")
+    lines += [f"            {target} <= {expr};" for target, expr in drives]
+    lines += ["        end", "    end"]
+    return lines
+
+
+def _sop_body(table: Table, cover: Cover, ports: Sequence[Port]) -> tuple[list[str], list[tuple[str, str]]]:
     ins = _bit_names(ports, "in", table.n_inputs)
     outs = _bit_names(ports, "out", table.n_outputs)
     wires = unique_names((f"pt{k}" for k in range(cover.rows)), [p.name for p in ports])
@@ -113,13 +132,14 @@ def _sop_body(table: Table, cover: Cover, ports: Sequence[Port]) -> list[str]:
         body = " & ".join(lits) if lits else "1'b1"
         lines.append(f"    wire {w} = {body};")
     lines.append("    // each output is the OR of its terms; ~( ... ): realized inverted")
+    drives = []
     for j in range(table.n_outputs):
         feeding = [w for w, c in zip(wires, cover.cubes) if c.outputs >> j & 1]
         expr = " | ".join(feeding) if feeding else "1'b0"
         if cover.is_inverted(j):
             expr = f"~({expr})" if feeding else "1'b1"
-        lines.append(f"    assign {outs[j]} = {expr};")
-    return lines
+        drives.append((outs[j], expr))
+    return lines, drives
 
 
 def _input_order(ports: Sequence[Port]) -> list[int]:
@@ -127,7 +147,7 @@ def _input_order(ports: Sequence[Port]) -> list[int]:
     return [i for p in ports if p.direction == "in" for i in reversed(p.members)]
 
 
-def _lut_body(table: Table, net: LutNetwork, ports: Sequence[Port]) -> list[str]:
+def _lut_body(table: Table, net: LutNetwork, ports: Sequence[Port]) -> tuple[list[str], list[tuple[str, str]]]:
     ref = dict(zip(table.input_names, _bit_names(ports, "in", table.n_inputs)))
     outs = _bit_names(ports, "out", table.n_outputs)
     taken = [p.name for p in ports]
@@ -135,8 +155,8 @@ def _lut_body(table: Table, net: LutNetwork, ports: Sequence[Port]) -> list[str]
     inits = unique_names((f"{w.upper()}_INIT" for w in wires), taken + list(wires))
     ref.update(zip((lut.name for lut in net.luts), wires))
     ref["0"], ref["1"] = "1'b0", "1'b1"
-    lines = [f"    // {net.count} LUT{'s' if net.count != 1 else ''} of at most {net.k} inputs; a LUT's output is "
-             "bit {fan-ins} of its INIT, fan-in 0 the least significant index bit"]
+    lines = [(f"    // {net.count} LUT{'s' if net.count != 1 else ''} of at most {net.k} inputs; a LUT's output is "
+              "bit {fan-ins} of its INIT, fan-in 0 the least significant index bit")]
     for lut, w, init in zip(net.luts, wires, inits):
         m = len(lut.inputs)
         bits = 1 << m
@@ -147,12 +167,11 @@ def _lut_body(table: Table, net: LutNetwork, ports: Sequence[Port]) -> list[str]
         else:
             fanins = ", ".join(ref[x] for x in reversed(lut.inputs))
             lines.append(f"    wire {w} = {init}[{{{fanins}}}];")
-    for j, d in enumerate(net.drivers):
-        lines.append(f"    assign {outs[j]} = {ref[d]};")
-    return lines
+    return lines, [(outs[j], ref[d]) for j, d in enumerate(net.drivers)]
 
 
-def readable_verilog(table: Table, artifact: Cover | LutNetwork, name: str, header: Sequence[str] = ()) -> str:
+def readable_verilog(table: Table, artifact: Cover | LutNetwork, name: str, header: Sequence[str] = (), *,
+                     registered: bool = False) -> str:
     """One Verilog module ``name`` realizing ``table`` by ``artifact``, written to be read (see the module docs).
 
     Parameters
@@ -164,22 +183,27 @@ def readable_verilog(table: Table, artifact: Cover | LutNetwork, name: str, head
         The module name (made a plain identifier by :func:`verilog_name`).
     header : sequence of str
         Comment lines put first (without the ``//``).
+    registered : bool
+        Register every output: ports ``clk`` and ``rst`` first, then as above; each output a ``reg`` loaded at the
+        rising edge of ``clk`` and cleared while ``rst`` is high (the same stage as a registered Amaranth module).
 
     Raises
     ------
     ArtifactError
         If the artifact's names are not the table's.
+    PlaforgeError
+        If ``registered`` and the spec has a port named ``clk`` or ``rst``.
     """
     what = "the cover" if isinstance(artifact, Cover) else "the LUT network"
     check_names(table, artifact.input_names, artifact.output_names, what)
     ports = ports_of(table)
+    if registered:
+        check_clock_ports(ports)
     lines = [f"// {h}".rstrip() for h in header]
     lines += [TIMESCALE, "", f"module {verilog_name(name)} ("]
-    lines += _declarations(ports)
+    lines += _declarations(ports, registered)
     lines.append(");")
-    if isinstance(artifact, Cover):
-        lines += _sop_body(table, artifact, ports)
-    else:
-        lines += _lut_body(table, artifact, ports)
+    body, drives = (_sop_body if isinstance(artifact, Cover) else _lut_body)(table, artifact, ports)  # type: ignore[operator]
+    lines += body + _outputs(drives, ports, registered)
     lines.append("endmodule")
     return "\n".join(lines) + "\n"

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import re
 
+from ..core.caution import CAUTION
 from ..core.network import Lut, LutNetwork
 from .init import INIT_STYLES, drop_unused_inputs, format_init, pad_init
 
@@ -21,10 +22,8 @@ __all__ = [
     "padded_network",
 ]
 
-GLITCH_NOTE = (
-    "Note: LUT outputs can glitch while inputs change (register them where that matters); close timing in the "
-    "device flow."
-)
+GLITCH_NOTE = CAUTION
+"""The caution at the end of a listing: the one wording of :mod:`plaforge.core.caution`."""
 
 
 def padded_network(net: LutNetwork) -> LutNetwork:

@@ -2,7 +2,8 @@
 
 A testbench reads the vectors from a file (``$readmemh``), drives them into the module through its ports (named as
 :func:`plaforge.core.names.ports_of` names them), and prints each vector's outputs twice over: which bits are 1 and
-which are 0, so an undefined (``x``/``z``) output is seen as such and fails. :func:`plaforge.verify.simulate.
+which are 0, so an undefined (``x``/``z``) output is seen as such and fails. A registered module's outputs are read
+one clock edge after each vector, with the next vector already applied. :func:`plaforge.verify.simulate.
 check_simulated` chooses the vectors and judges them.
 """
 
@@ -25,9 +26,15 @@ def have_iverilog() -> bool:
     return shutil.which("iverilog") is not None and shutil.which("vvp") is not None
 
 
-def _testbench(table: Table, top: str, count: int) -> str:
+def _testbench(table: Table, top: str, count: int, clock: tuple[str, str | None] | None = None) -> str:
     n, m = max(table.n_inputs, 1), table.n_outputs
     conns, decls = [], []
+    if clock is not None:
+        decls.append("  reg clk = 1'b0;")
+        conns.append(f".{clock[0]}(clk)")
+        if clock[1] is not None:
+            decls.append("  reg rst = 1'b0;")
+            conns.append(f".{clock[1]}(rst)")
     out_bits = [""] * m
     for p in ports_of(table):
         if p.direction == "in":
@@ -39,6 +46,10 @@ def _testbench(table: Table, top: str, count: int) -> str:
                 out_bits[j] = f"o_{p.name}[{b}]"
     ones = ", ".join(f"{b} === 1'b1" for b in reversed(out_bits))
     zeros = ", ".join(f"{b} === 1'b0" for b in reversed(out_bits))
+    step = ["      p = vec[i];", "      #1;"]
+    if clock is not None:  # tick, apply the next vector (the inverse after the last), then read
+        step = ["      p = vec[i];", "      #1 clk = 1'b1;",
+                f"      #1 p = (i + 1 < {count}) ? vec[i + 1] : ~vec[i];", "      #1 clk = 1'b0;"]
     return "\n".join([
         "module plaforge_tb;",
         f"  reg [{n - 1}:0] vec [0:{count - 1}];",
@@ -49,8 +60,7 @@ def _testbench(table: Table, top: str, count: int) -> str:
         "  initial begin",
         '    $readmemh("vectors.hex", vec);',
         f"    for (i = 0; i < {count}; i = i + 1) begin",
-        "      p = vec[i];",
-        "      #1;",
+        *step,
         f'      $display("%b %b", {{{ones}}}, {{{zeros}}});',
         "    end",
         "    $finish;",
@@ -60,8 +70,13 @@ def _testbench(table: Table, top: str, count: int) -> str:
     ])
 
 
-def iverilog_points(table: Table, verilog: str, top: str, points: list[int], where: str) -> tuple[list[int], list[int]]:
+def iverilog_points(table: Table, verilog: str, top: str, points: list[int], where: str,
+                    clock: tuple[str, str | None] | None = None) -> tuple[list[int], list[int]]:
     """Each point's outputs (bit ``j`` table output ``j``) and which of them were undefined, as iverilog sees them.
+
+    ``clock`` is ``(clock port, reset port or None)`` of a registered module (see
+    :func:`plaforge.verify.sat.register_ports`): each vector is applied, the clock rises (the reset held low), the
+    next vector is applied, and only then are the outputs read.
 
     Raises
     ------
@@ -74,7 +89,7 @@ def iverilog_points(table: Table, verilog: str, top: str, points: list[int], whe
     with tempfile.TemporaryDirectory(prefix="plaforge_iverilog_") as tmp:
         d = Path(tmp)
         (d / "dut.v").write_text(verilog, encoding="utf-8")
-        (d / "tb.v").write_text(_testbench(table, top, len(points)), encoding="utf-8")
+        (d / "tb.v").write_text(_testbench(table, top, len(points), clock), encoding="utf-8")
         (d / "vectors.hex").write_text("".join(f"{p:x}\n" for p in points), encoding="ascii")
         build = subprocess.run(["iverilog", "-g2005", "-o", "sim.vvp", "tb.v", "dut.v"], cwd=d,
                                capture_output=True, text=True, check=False)

