@@ -28,6 +28,9 @@ Pipeline
    ``SMALLER_K_CAP`` times as many (a k'-LUT network is a k-LUT network). Every output mapped from the cover alone is one more candidate (for the area objective only
    when the count is above its bound, some output was decomposed and the cover has at most ``COVER_AREA_LIMIT``
    literals). The best by ``options.objective`` is kept.
+   For fully specified tables of at most ``ARITH_LIMIT`` inputs whose output word is a sum of functions of
+   fewer inputs (a multiplier, a sum of independent terms), the word-level additive decomposition of
+   :mod:`plaforge.lut.arith` in the canonical order, at every size tried, is one more candidate.
 6. ``objective="depth"``: per output the shallowest realization, with a Shannon multiplexer tree for outputs
    above the Shannon bound, then area recovery that never deepens an output (:mod:`plaforge.lut.depth`).
 7. Fan-ins a LUT ignores are dropped, equal LUTs merged (structural hashing), dead LUTs removed, LUTs renamed
@@ -48,6 +51,7 @@ from ..core.cube import Cover
 from ..core.errors import InternalError, TimeLimit
 from ..core.network import Lut, LutNetwork
 from ..core.table import Table
+from .arith import ARITH_LIMIT, additive_network
 from .bounds import OutputSets, essential_inputs, lower_bounds
 from .decompose import Decomposer, GiveUp, NetworkBuilder, OverBudget, Pending
 from .options import LutOptions
@@ -302,6 +306,18 @@ def _map_at(sets: OutputSets, cover: Cover, k: int, opts: LutOptions, prefix: st
     return tidy_network(_resolve_constant_luts(net), prefix), builder.work
 
 
+def _finish(net: LutNetwork, opts: LutOptions, prefix: str) -> LutNetwork:
+    """Clean-up of a candidate network, then the better of it and its remapping by cuts (``options.remap``)."""
+    net = tidy_network(_resolve_constant_luts(net), prefix)
+    if opts.remap and net.luts:
+        from .cuts import remap_network
+
+        alt = tidy_network(_resolve_constant_luts(remap_network(net, opts)), prefix)
+        if _objective_key(opts.objective)(alt) < _objective_key(opts.objective)(net):
+            net = alt
+    return net
+
+
 def _cover_network(table: Table, cover: Cover, k: int, opts: LutOptions, prefix: str,
                    deadline: float | None) -> LutNetwork | None:
     """Every output mapped by cuts from the cover alone (step 3 for all outputs); ``None`` for an empty cover or
@@ -449,6 +465,19 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
                     here = cand
             if here is not None and key(here) < key(best[0]):
                 best = (here, csets, ccover)
+    if not at_bound and points is not None and table.n_inputs <= ARITH_LIMIT and not _past(deadline):
+        # word-level additive decomposition (arithmetic tables), in the canonical order: one more candidate
+        order = canonical_order(table)
+        if order == identity:
+            ctable, ccover, csets = table, cover, sets0
+        else:
+            ctable, ccover = permute_table(table, order), permute_cover(cover, order)
+            csets = OutputSets(ctable, opts.enum_limit)
+        assert csets.points is not None
+        alt = additive_network(ctable, csets.points, _sizes_tried(ctable, k, opts), lambda n: _finish(n, opts, prefix),
+                               _prefix(ctable.input_names, "@a"), _work_budget(ctable.n_inputs, opts), deadline)
+        if alt is not None and key(alt) < key(best[0]):
+            best = (alt, csets, ccover)
     net, csets, ccover = best
     cut = None
     if opts.objective == "depth" or (not at_bound and "decomposition" in net.method
