@@ -12,11 +12,11 @@ from __future__ import annotations
 from html import escape
 from pathlib import Path
 
+from .core.caution import caution
 from .core.fileio import write_text_atomic
 from .device import fit_lines
 from .listing import equations, plural
 from .pictures import lut_graph_svg, term_matrix_svg
-from .report import CAUTION
 
 __all__ = ["report_sections", "write_reports"]
 
@@ -71,7 +71,7 @@ def report_sections(res: object) -> list[tuple[str, list[str], list[list[str]]]]
     sections.append(("Equations", eq[:-1], []))
     arts = [["artifact", "file"]] + [[k, Path(p).name] for k, p in r.artifacts.items()]  # type: ignore[attr-defined]
     sections.append(("Files", [], arts))
-    sections.append(("Cautions", [CAUTION], []))
+    sections.append(("Cautions", [caution(bool(getattr(r, "registered", False)))], []))
     return sections
 
 
