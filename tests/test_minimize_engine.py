@@ -154,7 +154,8 @@ def test_cli_json_contract(tmp_path: Path) -> None:
     res = CliRunner().invoke(cli, ["minimize", str(spec), "--exact", "--cost", "per-output", "--json", "-o", str(out)])
     assert res.exit_code == 0, res.output
     data = json.loads(res.stdout)
-    assert list(data) == CONTRACT_KEYS
+    assert list(data) == [*CONTRACT_KEYS, "name"]  # the command adds the design name (docs/conventions.md)
+    assert data["name"] == "adder"  # the spec's file name without its extension
     # common practice: full-adder sum needs 4 product terms, carry 3
     assert data["terms"] == {"sum": 4, "cout": 3}
     assert data["method"] == "exact" and data["optimal"] is True and data["lower_bound"] == 7
