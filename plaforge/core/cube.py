@@ -34,6 +34,7 @@ __all__ = [
     "cube_list_contains",
     "cut_by_complement",
     "drop_inputs",
+    "lists_intersect",
     "merge_identical",
     "sharp",
 ]
@@ -269,7 +270,7 @@ def cut_by_complement(a: Sequence[Cube], b: Sequence[Cube], outputs: int) -> tup
     (see :meth:`plaforge.core.table.Table.on_pieces`). ``None`` when ``b`` has more than :data:`CUT_DC_LIMIT` cubes
     or the pieces could exceed :data:`CUT_LIMIT` (the product of the two list sizes bounds them).
     """
-    if not any(x.intersects(y) for x in a for y in b):
+    if not lists_intersect(a, b):
         return tuple(c.with_outputs(outputs) for c in a)
     if len(b) > CUT_DC_LIMIT:  # the complement of many scattered cubes over many inputs can itself explode
         return None
@@ -283,6 +284,35 @@ def cut_by_complement(a: Sequence[Cube], b: Sequence[Cube], outputs: int) -> tup
             if z is not None:
                 out.append(Cube(z.care, z.value, outputs))
     return tuple(dict.fromkeys(out))
+
+
+#: Pairs tested at once by :func:`lists_intersect` (bounds its memory: 8 bytes a pair, a few arrays).
+_PAIRS_AT_ONCE = 1 << 20
+
+
+def lists_intersect(a: Sequence[Cube], b: Sequence[Cube]) -> bool:
+    """Whether some cube of ``a`` shares a point with some cube of ``b`` (input parts only).
+
+    Up to 64 inputs the pairs are tested in 64-bit arrays, a block of ``a`` against all of ``b`` at a time;
+    wider cubes are tested one pair at a time.
+    """
+    if not a or not b:
+        return False
+    import numpy as np
+
+    try:
+        bc = np.array([c.care for c in b], dtype=np.uint64)
+        bv = np.array([c.value for c in b], dtype=np.uint64)
+        ac = np.array([c.care for c in a], dtype=np.uint64)
+        av = np.array([c.value for c in a], dtype=np.uint64)
+    except OverflowError:
+        return any(x.intersects(y) for x in a for y in b)
+    step = max(1, _PAIRS_AT_ONCE // len(b))
+    for k in range(0, len(a), step):
+        clash = (av[k:k + step, None] ^ bv[None, :]) & ac[k:k + step, None] & bc[None, :]
+        if (clash == 0).any():
+            return True
+    return False
 
 
 def merge_identical(cubes: Iterable[Cube]) -> list[Cube]:

@@ -30,13 +30,16 @@ signature regions, always runs in the spec's order, so the path before the sorti
 Effort
 ------
 The minimizer is a local descent, so where it starts matters. ``fast``: one run from the rows above (start A).
-``normal``: A in one child process; at once, in a second child (the machine's other core), up to
-:data:`SIGNATURE_LIMIT` inputs and 64 outputs, start B, the regions of constant output signature written as cubes,
-each carrying the whole signature; then one more descent from each result (fed back with the same don't-care or OFF
-rows). Everything after A is dropped when A already meets the lower bound, and is given only until
-``max(EXTRA_SHARE * tA, EXTRA_FLOOR)`` seconds after A's answer (``tA``: A's own time); unfinished work is stopped
-and the best finished result kept (fewer rows, then fewer literals). ``high``: all of it with descents repeated while
-they help, bounded only by the time limit.
+``normal``: A in one child process and, at once, a second start in a second child (the machine's other core): up to
+:data:`SIGNATURE_LIMIT` inputs and 64 outputs start B, the regions of constant output signature written as cubes,
+each carrying the whole signature; above ``ORDER_FROM`` inputs, when ON rows overlap don't-care rows, the other feed
+of those rows (as given or cut, see above). Everything else is dropped when the first answer already meets the lower
+bound. Otherwise the other start is given :func:`extra_window` more: :data:`EXTRA_SHARE` of the first answer's time,
+or :data:`EXTRA_FLOOR` seconds on a small table (:func:`is_small`, decided by size so that results do not depend on
+the machine's load); only on a small one (where it can finish) one more descent runs from each result, fed back with the same don't-care or OFF rows. Unfinished work is
+stopped and the best finished result kept (fewer rows, then fewer literals). So on a table that takes the minimizer
+more than a moment, ``normal`` costs at most 5 % more wall time than ``fast`` plus the check. ``high``: all of it
+with descents repeated while they help, bounded only by the time limit.
 
 Time limit
 ----------
@@ -61,7 +64,7 @@ from dataclasses import dataclass, replace
 from types import MappingProxyType
 
 from ..core.cube import Cover, Cube, merge_identical
-from ..core.errors import InternalError
+from ..core.errors import InternalError, SizeLimit, TimeLimit
 from ..core.sets import GivenSets, given_sets
 from ..core.table import FunctionSets, Table, signature_regions
 from .child import Isolated
@@ -78,10 +81,17 @@ SIGNATURE_LIMIT = 16
 #: Above this many inputs the columns are sorted by a key from the rows (the cost of wide tables depends on the
 #: order); at or below it the spec's own order is kept, which the starts were tuned on.
 ORDER_FROM = 16
-#: ``normal`` effort: work after start A may run until this share of A's time has passed since A's answer ...
-EXTRA_SHARE = 0.1
-#: ... or this many seconds, whichever is longer.
+#: ``normal`` effort: after the first answer, other starts may run this share of its time more ...
+EXTRA_SHARE = 0.05
+#: ... or, on a small table (:func:`is_small`), this many seconds, descents included.
 EXTRA_FLOOR = 1.0
+#: A small table has at most this many inputs ...
+SMALL_INPUTS = 12
+#: ... and at most this many (inputs + outputs) x rows given.
+SMALL_SIZE = 16384
+#: Seconds between two looks at the starts while waiting for the first answer.
+POLL = 0.02
+
 #: Seconds the lower bound may take (computed while the first start runs).
 BOUND_SECONDS = 0.5
 #: Default time limit: at least ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds.
@@ -270,44 +280,85 @@ def time_limit(options: MinimizeOptions, n: int, m: int, given: int) -> tuple[fl
                     f"/ {SCALE_DIVISOR} s)")
 
 
-def _run_shared(job: Job, second: Job | None, bound_of: object, options: MinimizeOptions, limit: float,
+def _first_answer(starts: Sequence[tuple[Job, Isolated | _Done]], deadline: float, note: str
+                  ) -> tuple[int, list[Row]]:
+    """Index and rows of whichever start answers first. The first start is the one that must answer: its errors
+    (and its time limit) are raised; a later start that fails is dropped."""
+    alive = list(range(len(starts)))
+    while True:
+        for k in list(alive):
+            pending = starts[k][1]
+            if pending.wait(0):
+                if k == 0:
+                    return 0, pending.result(0, note)  # type: ignore[return-value]
+                try:
+                    return k, pending.result(0)  # type: ignore[return-value]
+                except (InternalError, SizeLimit, TimeLimit):
+                    alive.remove(k)
+        left = deadline - time.monotonic()
+        if left <= 0:
+            return 0, starts[0][1].result(0, note)  # type: ignore[return-value]
+        starts[alive[0]][1].wait(min(POLL, left))
+
+
+def is_small(n: int, m: int, given: int) -> bool:
+    """Whether a table is small enough for the ``normal`` effort's floor and descents (:data:`SMALL_INPUTS`,
+    :data:`SMALL_SIZE`): decided by its size, not by a clock, so the result does not depend on the machine's load."""
+    return n <= SMALL_INPUTS and (n + m) * given <= SMALL_SIZE
+
+
+def extra_window(t_first: float, small: bool) -> float:
+    """Seconds the ``normal`` effort gives other starts after the first answer, which took ``t_first``."""
+    return max(EXTRA_FLOOR, EXTRA_SHARE * t_first) if small else EXTRA_SHARE * t_first
+
+
+def _run_shared(job: Job, second_of: object, bound_of: object, options: MinimizeOptions, limit: float,
                 note: str, progress: Progress) -> tuple[Job, list[Row], int]:
-    """Start A (and B), then descents, as ``options.effort`` allows (module docs); the best result with the job
-    it answers (their column orders differ) and the lower bound ``bound_of()``, computed here while the starts
-    run."""
+    """Start A (and a second start, ``second_of()`` built while A runs), then descents, as ``options.effort``
+    allows (module docs); the best result with the job it answers (their column orders differ) and the lower bound
+    ``bound_of()``, computed here while the starts run."""
     t0 = time.monotonic()
     deadline = t0 + limit
     effort = options.effort
     repeat = 1 << 20 if effort == "high" else 0
-    a = _call(_descend, (job, None, 0), options)
-    b = _call(_descend, (second, None, 0), options) if second is not None and effort != "fast" else None
-    progress.stage("start A: the rows as given" + (", start B: signature regions" if b else ""))
-    results: list[tuple[Job, list[Row]]] = []
-    bound = bound_of()  # type: ignore[operator]
+    starts: list[tuple[Job, Isolated | _Done]] = [(job, _call(_descend, (job, None, 0), options))]
     try:
-        results.append((job, a.result(deadline - time.monotonic(), note)))  # type: ignore[union-attr]
-        if effort == "fast" or len(results[0][1]) <= bound:
-            return job, results[0][1], bound
+        second = second_of() if effort != "fast" else None  # type: ignore[operator]
+        if second is not None:
+            starts.append((second[0], _call(_descend, (second[0], None, 0), options)))
+        progress.stage("start A: the rows as given" + (f", start B: {second[1]}" if second else ""))
+        bound = bound_of()  # type: ignore[operator]
+        first, rows = _first_answer(starts, deadline, note)
+        results: list[tuple[Job, list[Row]]] = [(starts[first][0], rows)]
+        if effort == "fast" or len(rows) <= bound:
+            return starts[first][0], rows, bound
         t_a = time.monotonic() - t0
-        extra_end = deadline if effort == "high" else min(deadline, time.monotonic() + max(EXTRA_SHARE * t_a,
-                                                                                         EXTRA_FLOOR))
-        progress.update(rows_a=len(results[0][1]))
-        if b is not None and b.wait(extra_end - time.monotonic()):  # type: ignore[union-attr]
-            results.append((second, b.result(0)))  # type: ignore[union-attr, arg-type]
-            progress.update(rows_b=len(results[-1][1]))
-        descents = [(j, _call(_descend, (j, r, repeat), options)) for j, r in results
-                    if time.monotonic() < extra_end]
-        progress.stage("one more descent from each result" if effort == "normal" else "descents while they help")
-        for j, d in descents:
-            if d.wait(extra_end - time.monotonic()):  # type: ignore[union-attr]
-                results.append((j, d.result(0)))  # type: ignore[union-attr]
-                progress.update(rows_descent=len(results[-1][1]))
-            else:
-                d.stop()  # type: ignore[union-attr]
+        small = is_small(job.n, job.m, len(job.rows))
+        window = extra_window(t_a, small)
+        extra_end = deadline if effort == "high" else min(deadline, time.monotonic() + window)
+        progress.update(rows_a=len(rows))
+        for k, (j, pending) in enumerate(starts):
+            if k != first and pending.wait(extra_end - time.monotonic()):
+                try:
+                    results.append((j, pending.result(0)))  # type: ignore[arg-type]
+                    progress.update(rows_b=len(results[-1][1]))
+                except (InternalError, SizeLimit, TimeLimit):
+                    pass
+        # a descent is worth starting only when it can finish in the time left: on a table whose first start
+        # was quick (``normal``), or under ``high``
+        if effort == "high" or small:
+            descents = [(j, _call(_descend, (j, r, repeat), options)) for j, r in results
+                        if time.monotonic() < extra_end]
+            progress.stage("one more descent from each result" if effort == "normal" else "descents while they help")
+            for j, d in descents:
+                if d.wait(extra_end - time.monotonic()):  # type: ignore[union-attr]
+                    results.append((j, d.result(0)))  # type: ignore[union-attr]
+                    progress.update(rows_descent=len(results[-1][1]))
+                else:
+                    d.stop()  # type: ignore[union-attr]
     finally:
-        for pending in (a, b):
-            if pending is not None:
-                pending.stop()  # type: ignore[union-attr]
+        for _, pending in starts:
+            pending.stop()
     best_job, best = min(results, key=lambda jr: _cost(jr[1]))
     return best_job, best, bound
 
@@ -323,9 +374,10 @@ def _decode(job: Job, rows: Sequence[Row], output: int | None = None) -> list[Cu
     return cubes
 
 
-def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, regions_of: object,
+def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, second_of: object,
                bound_of: object, given: int, options: MinimizeOptions) -> tuple[list[Cube], int]:
-    """The best cover found and the lower bound (``bound_of()``, computed while the first start runs)."""
+    """The best cover found and the lower bound (``bound_of()``, computed while the first start runs);
+    ``second_of()`` gives the second start's job and its name, or ``None``."""
     limit, note = time_limit(options, n, m, given)
     with Progress(options.progress, "heuristic") as progress:
         progress.stage(f"{given} rows, {n} inputs, {m} outputs; time limit {limit:.0f} s")
@@ -336,11 +388,17 @@ def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, regions
             res = run.result(limit, note)  # type: ignore[union-attr]
             return sort_cubes(merge_identical(c for k, (job, rows) in enumerate(zip(per_output, res))
                                               for c in _decode(job, rows, k))), bound
-        second = None
-        if options.effort != "fast" and n <= SIGNATURE_LIMIT and m <= 64:
-            second = signature_job(n, m, regions_of(), tuple(range(n)))  # type: ignore[operator]
-        job, rows, bound = _run_shared(first, second, bound_of, options, limit, note, progress)
+        job, rows, bound = _run_shared(first, second_of, bound_of, options, limit, note, progress)
     return sort_cubes(merge_identical(_decode(job, rows))), bound
+
+
+def _signature_start(n: int, m: int, regions_of: object) -> object:
+    """``second_of`` for start B, the signature regions (small tables only, see :data:`SIGNATURE_LIMIT`)."""
+    def second_of() -> tuple[Job, str] | None:
+        if n > SIGNATURE_LIMIT or m > 64:
+            return None
+        return signature_job(n, m, regions_of(), tuple(range(n))), "signature regions"  # type: ignore[operator]
+    return second_of
 
 
 def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
@@ -350,7 +408,8 @@ def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
     options = replace(options, scale_time_limit=False)
     per = _per_output_jobs(fs.n, "fd", fs.on, fs.dc) if options.cost == "per-output" else None
     given = sum(map(len, fs.on)) + sum(map(len, fs.dc))
-    cubes, _ = _minimized(fs.n, fs.m, sets_job(fs), per, lambda: fs.regions, lambda: 0, given, options)
+    cubes, _ = _minimized(fs.n, fs.m, sets_job(fs), per, _signature_start(fs.n, fs.m, lambda: fs.regions),
+                          lambda: 0, given, options)
     return cubes
 
 
@@ -375,15 +434,24 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
         fs = table.cover_sets(inverted)
         n, m, first, given = fs.n, fs.m, sets_job(fs), sum(map(len, fs.on)) + sum(map(len, fs.dc))
         ons, others, kind = fs.on, fs.dc, "fd"
-        regions = lambda: fs.regions
+        second_of = _signature_start(n, m, lambda: fs.regions)
     else:
-        # ON rows that may overlap DC rows: the ON rows cut by the complement of the DC rows (Table.on_pieces,
-        # bounded) make the minimizer's own work several times smaller (measured on the suite's wide40: 3.3 s
-        # against 15.6 s from the overlapping rows)
-        first = sets_job(table.cover_sets(inverted)) if gs.kind == "fd" and any(gs.other) else given_job(gs)
         n, m, given = gs.n, gs.m, gs.given
         ons, others, kind = gs.on, gs.other, gs.kind
-        regions = lambda: signature_regions(n, *gs.point_arrays())
+        second_of = _signature_start(n, m, lambda: signature_regions(n, *gs.point_arrays()))
+        first = given_job(gs)
+        if gs.kind == "fd" and any(gs.other):
+            # ON rows that may overlap DC rows: fed as given, or cut by the complement of the DC rows
+            # (Table.on_pieces, bounded). Which one the minimizer finishes sooner depends on the table, by a
+            # factor up to 80 either way (measured: the suite's wide40 3.3 s cut against 15.6 s as given; the
+            # scale benchmark's wide40x6 41 s cut against 0.5 s as given). Up to ORDER_FROM inputs the cut rows
+            # are start A (the starts were tuned on them); above it both run at once and the first answer wins.
+            def cut_rows() -> tuple[Job, str]:
+                return sets_job(table.cover_sets(inverted)), "ON rows cut by the don't-cares"
+            if n <= ORDER_FROM:
+                first = sets_job(table.cover_sets(inverted))
+            else:
+                second_of = cut_rows
 
     def bound_of() -> int:
         if kind == "fd":
@@ -392,6 +460,6 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
         return off_lower_bound(ons, others, n, per_output, BOUND_SECONDS)
 
     per = _per_output_jobs(n, kind, ons, others) if per_output else None
-    cubes, bound = _minimized(n, m, first, per, regions, bound_of, given, options)
+    cubes, bound = _minimized(n, m, first, per, second_of, bound_of, given, options)
     count = term_count(cubes, per_output)
     return checked_cover(table, cubes, options, inverted, "heuristic", count <= bound, bound, given=gs)
