@@ -167,7 +167,11 @@ def simulate_points(table: Table, component: Any, points: Sequence[int], where: 
         _silence(component)
         raise ArtifactError(f"{where}: elaborating it failed: {type(exc).__name__}: {exc}") from None
     if registered:
-        sim.add_clock(1e-6)
+        try:
+            sim.add_clock(1e-6)  # the sync domain's clock
+        except (ValueError, NameError) as exc:
+            raise ArtifactError(f"{where}: its registers are not clocked by the sync domain ({exc}); a registered "
+                                "module uses Amaranth's sync domain") from None
     sim.add_testbench(bench)
     sim.run()
     # raw bit q is table output out_order[q]; invert the permutation
