@@ -39,7 +39,7 @@ from __future__ import annotations
 
 import math
 import time
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from itertools import combinations
 
@@ -277,6 +277,18 @@ class Decomposer:
     beam: int = 8
     pending: list[Pending] = field(default_factory=list)
     reuse: bool = True
+    depth_aware: bool = False  # reuse only signals no deeper than the LUT they replace (:meth:`bounded`)
+    _levels: dict[str, int] = field(default_factory=dict)
+
+    def level(self, sig: str) -> int:
+        """LUT levels between the table inputs and ``sig`` (0 for inputs and constants)."""
+        if sig in ("0", "1") or sig in self.builder.index:
+            return 0
+        got = self._levels.get(sig)
+        if got is None:
+            node = self.builder.by_name[sig]
+            got = self._levels[sig] = 1 + max((self.level(i) for i in node.inputs), default=0)
+        return got
 
     # -- small helpers ---------------------------------------------------------------------------------------
     def _arrays(self, sigs: Sequence[str], u: Universe) -> list[np.ndarray]:
@@ -311,17 +323,20 @@ class Decomposer:
         const = _constant(on, off)
         if const is not None:
             return const
-        # an existing signal that fits (identical function, or equal up to don't-cares)
+        # an existing signal that fits (identical function, or equal up to don't-cares); when depth-aware, only one
+        # no deeper than the LUT it replaces
+        cap = 1 + max((self.level(x) for x in sigs), default=0) if self.depth_aware else None
         if not self.reuse:
             pass
         elif (on | off).all():
             hit = self.builder.function_index(u).get(np.packbits(on).tobytes())
-            if hit is not None:
+            if hit is not None and (cap is None or self.level(hit) <= cap):
                 return hit
         else:
             for cand in self._compatible_candidates(u, sigs):
                 g = self.builder.over(cand, u)
-                if g is not None and not (on & ~g).any() and not (off & g).any():
+                if g is not None and not (on & ~g).any() and not (off & g).any() and (
+                        cap is None or self.level(cand) <= cap):
                     return cand
         if len(sigs) > self.k:
             raise AssertionError(f"make_lut called with {len(sigs)} > k signals")
@@ -396,6 +411,58 @@ class Decomposer:
         mux = list(sel) + [d for d in dict.fromkeys(data) if d not in ("0", "1")]
         return self.make_lut(u, mux, on, off)
 
+    def _within(self, sigs: Sequence[str], target: int) -> bool:
+        """A Shannon tree over ``sigs`` would end at level ``target`` or below (latest signal + tree height)."""
+        depth = shannon_depth(len(sigs), self.k)
+        return depth is not None and max((self.level(x) for x in sigs), default=0) + depth <= target
+
+    def bounded(self, u: Universe, sigs: list[str], on: np.ndarray, off: np.ndarray, target: int) -> str:
+        """A signal for the output ``(on, off)`` at level ``target`` or below, with fewer LUTs than a Shannon tree
+        where decomposition allows (area recovery under a depth bound; needs ``k >= 3`` and ``depth_aware``).
+
+        Invariant: ``max level(V) + shannon_depth(|V|, k) <= target`` for the signals ``V`` in hand (the caller's
+        guarantee at entry). Each step keeps it: a reuse or a decomposition step (:meth:`_decompose`) is taken only
+        when the signals it leaves satisfy it; otherwise one Shannon step on the ``s`` shallowest signals, whose
+        cofactors are realized the same way one level lower (``shannon_depth(n - s) <= shannon_depth(n) - 1``).
+        So the result is never deeper than the Shannon tree's guarantee, whatever the steps.
+        """
+        const = _constant(on, off)
+        if const is not None:
+            return const
+        sigs, arrays = self._reduced(u, sigs, on, off)
+        if not self._within(sigs, target):
+            raise AssertionError("bounded() called without a feasible depth target")
+        while len(sigs) > self.k:
+            step = self._reuse(u, sigs, arrays, on, off)
+            if step is not None and self._within(step[0], target):
+                sigs, arrays = step
+                continue
+            levels = [self.level(x) for x in sigs]
+            m = len(sigs)
+
+            def admit(b: tuple[int, ...], t: int, levels: list[int] = levels, m: int = m) -> bool:
+                enc = 1 + max(levels[x] for x in b)
+                top = max([enc] + [levels[x] for x in range(m) if x not in b])
+                depth = shannon_depth(m - len(b) + t, self.k)
+                return depth is not None and top + depth <= target
+
+            step = self._decompose(u, sigs, arrays, on, off, admit)
+            if step is not None and self._within(step[0], target):
+                sigs, arrays = step
+                continue
+            # one Shannon step on the shallowest signals (ties: list order)
+            s = shannon_selects(self.k)
+            order = sorted(range(m), key=lambda x: (levels[x], x))
+            sel, rest = [sigs[x] for x in order[:s]], [sigs[x] for x in order[s:]]
+            idx = signal_index([arrays[x] for x in order[:s]], u.size)
+            data = []
+            for v in range(1 << s):
+                here = idx == v
+                data.append(self.bounded(u, rest, on & here, off & here, target - 1))
+            sigs = sel + [d for d in dict.fromkeys(data) if d not in ("0", "1")]
+            sigs, arrays = self._reduced(u, sigs, on, off)
+        return self.make_lut(u, sigs, on, off)
+
     def _reuse(self, u: Universe, sigs: list[str], arrays: list[np.ndarray], on: np.ndarray,
                off: np.ndarray) -> tuple[list[str], list[np.ndarray]] | None:
         present = set(sigs)
@@ -420,7 +487,8 @@ class Decomposer:
         return None
 
     def _decompose(self, u: Universe, sigs: list[str], arrays: list[np.ndarray], on: np.ndarray,
-                   off: np.ndarray) -> tuple[list[str], list[np.ndarray]] | None:
+                   off: np.ndarray, admit: Callable[[tuple[int, ...], int], bool] | None = None
+                   ) -> tuple[list[str], list[np.ndarray]] | None:
         loc = local_function(arrays, on, off)
         assert loc is not None
         on_l, off_l = loc
@@ -454,7 +522,7 @@ class Decomposer:
         options = []
         for b, (mu, _) in evaluated.items():
             t = _codes(mu)
-            if t >= len(b):
+            if t >= len(b) or (admit is not None and not admit(b, t)):
                 continue
             rest = m - len(b) + t
             est = t + math.ceil((rest - 1) / (k - 1))

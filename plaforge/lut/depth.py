@@ -7,8 +7,17 @@ Candidates per output
 * for outputs still deeper than the Shannon bound ``1 + ceil((n - k) / s)`` (:func:`shannon_depth`), a Shannon
   multiplexer tree, which meets that bound by construction.
 
-The chosen realizations are merged into one network (equal LUTs shared), and the merged network is remapped by
-cuts with every output held at its own optimal label: area is recovered without making any output deeper.
+Picks
+-----
+* shallowest: per output the candidate of least level, then smallest cone;
+* area recovery: the network depth ``D`` is that of the shallowest pick, and every output may end at level
+  ``min(D, its Shannon bound)`` (or its own best level, when higher). A depth-bounded decomposition of every output
+  within that level (:meth:`plaforge.lut.decompose.Decomposer.bounded`: Ashenhurst-Curtis and reuse steps taken
+  only while a Shannon tree over what is left would still fit, a Shannon step otherwise) is one more candidate,
+  and per output the smallest cone within the slack is picked.
+Each pick is merged into one network (equal LUTs shared) and remapped by cuts with every output held at its own
+label in it; the smaller of the two networks is kept. Neither is deeper than ``D``, and no output ends above its
+Shannon bound.
 """
 
 from __future__ import annotations
@@ -65,7 +74,8 @@ def merge_networks(nets: Sequence[LutNetwork], pick: Sequence[int], method: str)
 
 def shallowest(candidates: Sequence[LutNetwork], supports: Sequence[int],
                fallback: Callable[[list[int]], tuple[LutNetwork, set[int]] | None], options: LutOptions,
-               tidy: Callable[[LutNetwork], LutNetwork]) -> LutNetwork:
+               tidy: Callable[[LutNetwork], LutNetwork],
+               bounded: Callable[[dict[int, int]], tuple[LutNetwork, set[int]] | None] | None = None) -> LutNetwork:
     """The depth-objective network (module docs).
 
     Parameters
@@ -79,12 +89,22 @@ def shallowest(candidates: Sequence[LutNetwork], supports: Sequence[int],
         of those it realizes (the drivers of all other outputs are placeholders), or ``None`` when it cannot.
     tidy : callable
         Drops dead LUTs and merges equal ones.
+    bounded : callable, optional
+        Given a target level per output, a network realizing some of them within their targets with few LUTs
+        and the set of those it realizes (or ``None``); used for area recovery (module docs).
     """
     k = candidates[0].k
     nets = list(candidates)
     levels = [output_levels(n) for n in nets]
     cones = [cone_sizes(n) for n in nets]
     m = len(supports)
+    never = 1 << 30
+
+    def add(extra: LutNetwork, realized: set[int]) -> None:
+        # the other outputs of an extra network are placeholders, never to be picked
+        nets.append(extra)
+        levels.append([lv if j in realized else never for j, lv in enumerate(output_levels(extra))])
+        cones.append(cone_sizes(extra))
 
     def pick_best() -> list[int]:
         return [min(range(len(nets)), key=lambda x: (levels[x][j], cones[x][j], x)) for j in range(m)]
@@ -94,17 +114,33 @@ def shallowest(candidates: Sequence[LutNetwork], supports: Sequence[int],
     if over:
         got = fallback(over)
         if got is not None:
-            extra, realized = got
-            nets.append(extra)
-            # the other outputs of the fallback network are placeholders, never to be picked
-            levels.append([lv if j in realized else 1 << 30 for j, lv in enumerate(output_levels(extra))])
-            cones.append(cone_sizes(extra))
+            add(*got)
             pick = pick_best()
-    merged = tidy(merge_networks(nets, pick, "+".join(dict.fromkeys(nets[x].method for x in pick)) + "+depth"))
-    if not merged.luts:
-        return merged
-    remapped = tidy(remap_network(merged, options, per_output=True))
-    before, after = output_levels(merged), output_levels(remapped)
-    if all(a <= b for a, b in zip(after, before)) and remapped.count <= merged.count:
-        return remapped
-    return merged
+    picks = [pick]
+    if bounded is not None:
+        # area recovery: every output may end at the network's depth (never above its Shannon bound nor its own
+        # best level's floor), so a depth-bounded decomposition and the smallest cones within that slack compete
+        best = [levels[pick[j]][j] for j in range(m)]
+        top = max(best, default=0)
+        slack = []
+        for j in range(m):
+            b = shannon_depth(supports[j], k)
+            slack.append(max(best[j], top if b is None else min(top, b)))
+        got = bounded({j: slack[j] for j in range(m) if (b := shannon_depth(supports[j], k)) is not None
+                       and b <= slack[j] and supports[j] > 0})
+        if got is not None:
+            add(*got)
+        picks.append([min(range(len(nets)), key=lambda x: (levels[x][j] > slack[j], cones[x][j], levels[x][j], x))
+                      for j in range(m)])
+    result: LutNetwork | None = None
+    for pk in dict.fromkeys(tuple(p) for p in picks):
+        merged = tidy(merge_networks(nets, pk, "+".join(dict.fromkeys(nets[x].method for x in pk)) + "+depth"))
+        if merged.luts:
+            remapped = tidy(remap_network(merged, options, per_output=True))
+            before, after = output_levels(merged), output_levels(remapped)
+            if all(a <= b for a, b in zip(after, before)) and remapped.count <= merged.count:
+                merged = remapped
+        if result is None or (merged.depth, merged.count) < (result.depth, result.count):
+            result = merged
+    assert result is not None
+    return result

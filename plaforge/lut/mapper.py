@@ -190,6 +190,7 @@ EXTRA_PASS_WORK = 1 << 24  # decomposition work (array elements) of the first ca
 # order or LUT size is tried: each would cost about as much again
 COVER_CANDIDATE_LIMIT = 4000  # literals; larger covers are mapped by cuts only for outputs that need it
 COVER_AREA_LIMIT = 500  # literals; the same for the area objective
+BOUNDED_LIMIT = 14  # support inputs up to which the depth objective tries depth-bounded decomposition
 
 
 def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
@@ -346,24 +347,51 @@ def _depth_pass(sets: OutputSets, net: LutNetwork, cut: LutNetwork | None, opts:
     enumerable = table.n_inputs <= opts.enum_limit
     supports = [sets.support(j).bit_count() if enumerable else table.n_inputs for j in range(m)]
 
-    def fallback(outputs: list[int]) -> tuple[LutNetwork, set[int]] | None:
-        todo = [j for j in outputs if enumerable and supports[j] <= opts.decompose_limit]
-        if not todo:
-            return None
+    def realize_all(todo: list[int], targets: dict[int, int] | None) -> LutNetwork | None:
+        # Shannon trees (no reuse: a reused LUT could be deeper), or with ``targets`` depth-bounded decomposition
+        # (each output at most its target level) reusing only LUTs no deeper than needed; None past its budget
+        bounded = targets is not None
         builder = NetworkBuilder(table.input_names, k, prefix=_prefix(table.input_names, "@s"),
                                  global_limit=max(opts.decompose_limit, 1))
-        dec = Decomposer(builder, k, reuse=False)
+        dec = Decomposer(builder, k, reuse=bounded, depth_aware=bounded)
+        if bounded and opts.work_budget:
+            builder.work_end = sum(_work_budget(supports[j], opts) for j in todo)
         drivers = ["0"] * m
         for j in todo:
             sup = tuple(i for i in range(table.n_inputs) if sets.support(j) >> i & 1)
             on, off = sets.local(j, sup)
             u = builder.universe(sup)
-            drivers[j] = dec.shannon(u, [table.input_names[i] for i in u.inputs], on, off)
+            names = [table.input_names[i] for i in u.inputs]
+            if targets is not None:
+                try:
+                    drivers[j] = dec.bounded(u, names, on, off, targets[j])
+                except OverBudget:
+                    return None
+            else:
+                drivers[j] = dec.shannon(u, names, on, off)
         luts = tuple(Lut(n.name, n.inputs, n.init) for n in builder.nodes)
-        raw = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {}, "Shannon")
-        return tidy_network(_resolve_constant_luts(raw), prefix), set(todo)
+        raw = LutNetwork(k, table.input_names, table.output_names, luts, tuple(drivers), {},
+                         "bounded decomposition" if bounded else "Shannon")
+        return tidy_network(_resolve_constant_luts(raw), prefix)
 
-    return shallowest(candidates, supports, fallback, opts, lambda n: tidy_network(_resolve_constant_luts(n), prefix))
+    def fallback(outputs: list[int]) -> tuple[LutNetwork, set[int]] | None:
+        todo = [j for j in outputs if enumerable and supports[j] <= opts.decompose_limit]
+        if not todo:
+            return None
+        net = realize_all(todo, None)
+        assert net is not None
+        return net, set(todo)
+
+    def bounded(targets: dict[int, int]) -> tuple[LutNetwork, set[int]] | None:
+        todo = [j for j in sorted(targets, key=lambda j: (supports[j], j))
+                if enumerable and supports[j] <= BOUNDED_LIMIT]
+        if not todo:
+            return None
+        net = realize_all(todo, targets)
+        return None if net is None else (net, set(todo))
+
+    return shallowest(candidates, supports, fallback, opts, lambda n: tidy_network(_resolve_constant_luts(n), prefix),
+                      bounded)
 
 
 def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None = None) -> LutNetwork:
