@@ -25,7 +25,8 @@ The minimizer's work (and memory) can depend on the order of the columns, badly 
 rows first, then inputs more often tested at 1, then spec order) and the result mapped back, so permuting a spec's
 columns does not change the work beyond such ties. At or below it the spec's order is kept: there the cost does not
 blow up, and the starts below were measured in that order (sorting cost a row on some suite tables). Start B, the
-signature regions, always runs in the spec's order, so the path before the sorting is always among the candidates.
+signature regions, always runs in the spec's order, so the path before the sorting is always among the candidates;
+above ``ORDER_FROM`` inputs the spec's order runs beside the sorted one when nothing else takes the second core.
 
 Effort
 ------
@@ -33,7 +34,8 @@ The minimizer is a local descent, so where it starts matters. ``fast``: one run 
 ``normal``: A in one child process and, at once, a second start in a second child (the machine's other core): up to
 :data:`SIGNATURE_LIMIT` inputs and 64 outputs start B, the regions of constant output signature written as cubes,
 each carrying the whole signature; above ``ORDER_FROM`` inputs, when ON rows overlap don't-care rows, the other feed
-of those rows (as given or cut, see above). Everything else is dropped when the first answer already meets the lower
+of those rows (as given or cut, see above), and otherwise the same rows in the spec's column order. The first of
+the two to answer is "the first answer". Everything else is dropped when the first answer already meets the lower
 bound. Otherwise the other start is given :func:`extra_window` more: :data:`EXTRA_SHARE` of the first answer's time,
 or :data:`EXTRA_FLOOR` seconds on a small table (:func:`is_small`, decided by size so that results do not depend on
 the machine's load); only on a small one (where it can finish) one more descent runs from each result, fed back with the same don't-care or OFF rows. Unfinished work is
@@ -162,9 +164,11 @@ def column_order(n: int, cubes: Sequence[Cube]) -> tuple[int, ...]:
     return tuple(sorted(range(n), key=lambda i: (-cares[i], -ones[i], i)))
 
 
-def _job(n: int, m: int, kind: str, marked: Sequence[tuple[Sequence[Cube], int]]) -> Job:
+def _job(n: int, m: int, kind: str, marked: Sequence[tuple[Sequence[Cube], int]], spec_order: bool = False
+         ) -> Job:
     """A job from cube lists each with the mark its outputs get (1 ON, 2 DC, 0 OFF); identical input parts merged
-    into one row, a don't-care mark winning over ON."""
+    into one row, a don't-care mark winning over ON. Columns sorted above ``ORDER_FROM`` inputs unless
+    ``spec_order``."""
     fill = 2 if kind == "fr" else 0
     parts: dict[tuple[int, int], list[int]] = {}
     for cubes, mark in marked:
@@ -177,15 +181,16 @@ def _job(n: int, m: int, kind: str, marked: Sequence[tuple[Sequence[Cube], int]]
                 if not (mark == 1 and entry[j] == 2 and kind == "fd"):
                     entry[j] = mark
                 outs ^= low
-    order = column_order(n, [Cube(care, value) for care, value in parts]) if n > ORDER_FROM else tuple(range(n))
+    sort = n > ORDER_FROM and not spec_order
+    order = column_order(n, [Cube(care, value) for care, value in parts]) if sort else tuple(range(n))
     rows = frozenset((encode_cube(Cube(care, value), n, order), tuple(e)) for (care, value), e in parts.items())
     return Job(n, m, kind, rows, order)
 
 
-def given_job(gs: GivenSets) -> Job:
+def given_job(gs: GivenSets, spec_order: bool = False) -> Job:
     """Start A for sets as given: ON rows with DC rows (F|D) or with OFF rows (F|R)."""
     other = 2 if gs.kind == "fd" else 0
-    return _job(gs.n, gs.m, gs.kind, [(c, 1) for c in gs.on] + [(c, other) for c in gs.other])
+    return _job(gs.n, gs.m, gs.kind, [(c, 1) for c in gs.on] + [(c, other) for c in gs.other], spec_order)
 
 
 def sets_job(fs: FunctionSets) -> Job:
@@ -452,6 +457,13 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
                 first = sets_job(table.cover_sets(inverted))
             else:
                 second_of = cut_rows
+        elif n > ORDER_FROM:
+            # the minimizer's time on wide tables depends on the column order, either way and by up to twice
+            # (measured on the scale benchmark's ON/OFF tables): the spec's own order runs beside the sorted one
+            def spec_columns() -> tuple[Job, str] | None:
+                job = given_job(gs, spec_order=True)
+                return None if job.order == first.order else (job, "the rows in the spec's column order")
+            second_of = spec_columns
 
     def bound_of() -> int:
         if kind == "fd":
