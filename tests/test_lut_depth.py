@@ -100,7 +100,7 @@ def test_depth_objective_on_a_multiplier_computes_the_product():
         assert net.evaluate(p) == (p & 15) * (p >> 4)
 
 
-SINE8_DEPTH_K4 = 113  # LUTs measured at depth 5 with area recovery (380 before it)
+SINE8_DEPTH_K4 = 113  # LUTs measured at depth 5 with area recovery (379 before it)
 
 
 def test_sine_table_depth_objective_recovers_area_at_the_same_depth():

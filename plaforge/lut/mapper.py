@@ -30,7 +30,7 @@ Pipeline
    literals). The best by ``options.objective`` is kept.
    For fully specified tables of at most ``ARITH_LIMIT`` inputs whose output word is a sum of functions of
    fewer inputs (a multiplier, a sum of independent terms), the word-level additive decomposition of
-   :mod:`plaforge.lut.arith` in the canonical order, at every size tried, is one more candidate.
+   :mod:`plaforge.lut.arith` in the canonical order and its reverse, at every size tried, gives more candidates.
 6. ``objective="depth"``: per output the shallowest realization, with a Shannon multiplexer tree for outputs
    above the Shannon bound, then area recovery that never deepens an output (:mod:`plaforge.lut.depth`).
 7. Fan-ins a LUT ignores are dropped, equal LUTs merged (structural hashing), dead LUTs removed, LUTs renamed
@@ -190,7 +190,7 @@ EXTRA_PASS_WORK = 1 << 24  # decomposition work (array elements) of the first ca
 # order or LUT size is tried: each would cost about as much again
 COVER_CANDIDATE_LIMIT = 4000  # literals; larger covers are mapped by cuts only for outputs that need it
 COVER_AREA_LIMIT = 500  # literals; the same for the area objective
-BOUNDED_LIMIT = 14  # support inputs up to which the depth objective tries depth-bounded decomposition
+BOUNDED_LIMIT = 10  # support inputs up to which the depth objective tries depth-bounded decomposition
 
 
 def _sizes_tried(table: Table, k: int, opts: LutOptions) -> list[int]:
@@ -494,18 +494,25 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
             if here is not None and key(here) < key(best[0]):
                 best = (here, csets, ccover)
     if not at_bound and points is not None and table.n_inputs <= ARITH_LIMIT and not _past(deadline):
-        # word-level additive decomposition (arithmetic tables), in the canonical order: one more candidate
-        order = canonical_order(table)
-        if order == identity:
-            ctable, ccover, csets = table, cover, sets0
-        else:
-            ctable, ccover = permute_table(table, order), permute_cover(cover, order)
-            csets = OutputSets(ctable, opts.enum_limit)
-        assert csets.points is not None
-        alt = additive_network(ctable, csets.points, _sizes_tried(ctable, k, opts), lambda n: _finish(n, opts, prefix),
-                               _prefix(ctable.input_names, "@a"), _work_budget(ctable.n_inputs, opts), deadline)
-        if alt is not None and key(alt) < key(best[0]):
-            best = (alt, csets, ccover)
+        # word-level additive decomposition (arithmetic tables), in the canonical order and its reverse: more
+        # candidates
+        canon = canonical_order(table)
+        for order in dict.fromkeys((canon, canon[::-1])):
+            if _past(deadline):
+                break
+            if order == identity:
+                ctable, ccover, csets = table, cover, sets0
+            else:
+                ctable, ccover = permute_table(table, order), permute_cover(cover, order)
+                csets = OutputSets(ctable, opts.enum_limit)
+            assert csets.points is not None
+            alt = additive_network(ctable, csets.points, _sizes_tried(ctable, k, opts),
+                                   lambda n: _finish(n, opts, prefix), _prefix(ctable.input_names, "@a"),
+                                   _work_budget(ctable.n_inputs, opts), deadline)
+            if alt is None:
+                break  # not of that form (the same in any order)
+            if key(alt) < key(best[0]):
+                best = (alt, csets, ccover)
     net, csets, ccover = best
     cut = None
     if opts.objective == "depth" or (not at_bound and "decomposition" in net.method
