@@ -259,19 +259,22 @@ def independent_targets_bound(pb: CoverProblem) -> int:
     return count
 
 
-def greedy_cover(pb: CoverProblem, start: Sequence[int] = (), outputs: int = -1) -> list[int]:
+def greedy_cover(pb: CoverProblem, start: Sequence[int] = (), outputs: int = -1,
+                 targets: int | None = None) -> list[int]:
     """Classical greedy set cover of the open targets needed for the phases ``outputs`` (see
-    :meth:`CoverProblem.needed`; all when -1), most new targets per prime, fewer literals on ties.
+    :meth:`CoverProblem.needed`; all when -1), or of the bitset ``targets`` when given, most new targets per prime,
+    fewer literals on ties.
 
     ``start`` primes are taken first (e.g. the heuristic's cover mapped onto primes); greedy completes them. Gains
     only shrink as targets get covered, so a heap with lazy re-evaluation finds each best prime without rescanning
     all.
     """
-    left = pb.needed(outputs)
+    left = pb.needed(outputs) if targets is None else targets
     picked: list[int] = list(start)
     for p in picked:
         left &= ~pb.covers[p]
-    heap = [(-(pb.covers[p] & left).bit_count(), pb.literals[p], p) for p in bits_of(pb.open_primes)]
+    heap = [(-(pb.covers[p] & left).bit_count(), pb.literals[p], p) for p in bits_of(pb.open_primes)
+            if pb.covers[p] & left]
     heapq.heapify(heap)
     while left and heap:
         _, lit, p = heapq.heappop(heap)

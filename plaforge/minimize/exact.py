@@ -18,14 +18,34 @@ above. The heuristic's cover comes from a function the caller passes in (:func:`
 reported lower bound on rows is ``essentials + max(CP-SAT bound, independent-target bound)``, where the
 independent-target bound is the size of a set of targets no two of which share a prime (each needs its own prime).
 
-All phase assignments at once (``phase``)
------------------------------------------
+All phase assignments (``phase``)
+---------------------------------
 For output ``j`` of a group of ``g`` outputs the problem holds two outputs: ``j`` (``f_j``: ON and DC of the Table)
-and ``g + j`` (``¬f_j``: the Table's OFF set as ON, the same DC). Primes are those of this double-phase function.
-A Boolean ``y_j`` (output ``j`` realized in complement) guards the targets: a target of output ``j`` must be covered
-unless ``y_j``, one of output ``g + j`` unless ``¬y_j``; the objective counts every chosen prime once whichever
-outputs it feeds. The optimum of this one model is the minimum over all ``2**g`` assignments, and its CP-SAT bound
-is a bound over all of them. An output constant in one phase costs nothing there (its complement has no ON point).
+and ``g + j`` (``¬f_j``: the Table's OFF set as ON, the same DC). Primes are those of this double-phase function
+(every prime of every assignment's function is among them). A Boolean ``y_j`` (output ``j`` realized in complement)
+guards the targets: a target of output ``j`` must be covered unless ``y_j``, one of output ``g + j`` unless ``¬y_j``;
+the objective counts every chosen prime once whichever outputs it feeds. The optimum of this one model is the
+minimum over all ``2**g`` assignments, and its CP-SAT bound is a bound over all of them. An output constant in one
+phase costs nothing there (its complement has no ON point).
+
+That model proves small groups at once, but its LP relaxation is weak (``y_j = 1/2`` halves every demand): on the
+4x4-bit multiplier (8 outputs) it ended at 110 rows, bound 80, after 120 s. So it gets a short slice
+(:data:`JOINT_SHARE`), and groups of up to :data:`MAX_BRANCH_OUTPUTS` outputs then go on in two steps:
+
+1. *Branching node by node* (:func:`_branch_phases`, :data:`BRANCH_SHARE` of the time): depth-first over the
+   outputs' phases; a node's problem holds the targets of the outputs fixed so far, so "no cover with fewer primes
+   than the incumbent" (one CP-SAT call, often proven in a few hundredths of a second) prunes the whole subtree,
+   and a leaf is solved to its minimum under that cutoff. Greedy covers order the outputs and the phases, so good
+   incumbents come early. Small groups finish here.
+2. *Closing in one model* (:func:`_prove_phases`, the rest of the time): the all-assignments model asked for a
+   cover better than the incumbent, with a fixed search that sets the phases first (incumbent's phase first); with
+   every phase fixed its LP is the tight one of that assignment, and one model has no start-up per node. Measured
+   on the 4x4-bit multiplier: with an incumbent of 110 rows it proves 107 in about 3 s; from 112 it did not finish
+   in 60 s, hence step 1 first.
+
+``optimal`` is true only when one of these covered every assignment; otherwise the bound is the all-assignments
+model's (or the cheap phase bound), valid for every assignment. Literals are then minimized at that row count for
+the assignment found (over all assignments when the one model proved it).
 
 Limits
 ------
@@ -41,6 +61,7 @@ import math
 import time
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
+from typing import Any
 
 import numpy as np
 
@@ -69,6 +90,17 @@ SeedCover = Callable[[FunctionSets, MinimizeOptions], Sequence[Cube]]
 
 #: Bytes of memory budget per candidate prime (its bitsets, element lists and solver variable).
 _BYTES_PER_PRIME = 8192
+#: Most outputs of a group for which the phase search branches over the assignments (at most ``2**g`` leaves);
+#: larger groups keep the one all-assignments model for the whole time.
+MAX_BRANCH_OUTPUTS = 10
+#: Before branching, the all-assignments model gets this share of the time left (at least :data:`JOINT_SECONDS`):
+#: it proves small tables at once, and otherwise hands over its best cover and its bound.
+JOINT_SHARE = 0.02
+JOINT_SECONDS = 0.5
+#: Then branching node by node gets this share (at least :data:`BRANCH_SECONDS`): it completes on small groups and
+#: otherwise finds the incumbent that lets :func:`_prove_phases` close the search.
+BRANCH_SHARE = 0.1
+BRANCH_SECONDS = 2.0
 
 
 # -- mapping heuristic cubes to primes -----------------------------------------------------------------------------
@@ -100,14 +132,30 @@ class ExactResult:
     stats: tuple[tuple[str, object], ...]
 
 
+def _solver(deadline: float) -> Any:
+    """A CP-SAT solver set up as the module docs say, stopping at ``deadline``."""
+    from ortools.sat.python import cp_model
+
+    solver = cp_model.CpSolver()
+    # Two workers, one per core: an LP-based search (its bound proves set-cover minima quickly) and a core-based
+    # one (MaxSAT-style unsatisfiable cores raise the bound); interleaved deterministically, so the same input gives
+    # the same cover.
+    solver.parameters.num_workers = 2
+    solver.parameters.subsolvers.extend(["max_lp", "core"])
+    solver.parameters.interleave_search = True
+    solver.parameters.random_seed = 1
+    solver.parameters.max_time_in_seconds = max(0.05, deadline - time.monotonic())
+    return solver
+
+
 def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[int], deadline: float,
             progress: Progress | _Offset, row_count: int | None,
             phases: int) -> tuple[list[int] | None, int, bool, float]:
     """One CP-SAT solve: minimum primes (``row_count`` None) or minimum literals at ``row_count`` primes.
 
     ``primes`` and ``targets`` are the open ones; ``hint`` is a known cover, and the model asks for one no worse.
-    ``phases`` outputs have a phase variable (guards ``j`` and ``phases + j``). Returns (chosen primes or None,
-    outputs realized, proven, bound).
+    ``phases`` outputs have a phase variable (guards ``j`` and ``phases + j``; with 0 the guards are ignored: the
+    caller passes only the targets it needs). Returns (chosen primes or None, outputs realized, proven, bound).
     """
     from ortools.sat.python import cp_model
 
@@ -117,7 +165,7 @@ def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[i
     for t in targets:
         lits = [x[p] for p in bits_of(pb.covered_by[t])]
         g = pb.guards[t]
-        if g >= 0:
+        if g >= 0 and phases:
             lits.append(y[g] if g < phases else y[g - phases].Not())
         model.AddBoolOr(lits)
     # The known cover enters as an upper bound, not as a solution hint: on these set-cover models a hint steered
@@ -130,15 +178,7 @@ def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[i
         lits_sum = sum(pb.literals[p] * x[p] for p in primes)
         model.Add(lits_sum <= sum(pb.literals[p] for p in hint))
         model.Minimize(lits_sum)
-    solver = cp_model.CpSolver()
-    # Two workers, one per core: an LP-based search (its bound proves set-cover minima quickly) and a core-based
-    # one (MaxSAT-style unsatisfiable cores raise the bound); interleaved deterministically, so the same input gives
-    # the same cover.
-    solver.parameters.num_workers = 2
-    solver.parameters.subsolvers.extend(["max_lp", "core"])
-    solver.parameters.interleave_search = True
-    solver.parameters.random_seed = 1
-    solver.parameters.max_time_in_seconds = max(0.05, deadline - time.monotonic())
+    solver = _solver(deadline)
     what = "rows" if row_count is None else "literals"
 
     class _Seen(cp_model.CpSolverSolutionCallback):
@@ -154,6 +194,145 @@ def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[i
     if status == cp_model.INFEASIBLE:
         return None, -1, False, float("inf")
     return None, -1, False, solver.BestObjectiveBound()
+
+
+def _within(pb: CoverProblem, targets: int, most: int, minimum: bool,
+            deadline: float) -> tuple[list[int] | None, bool]:
+    """Primes covering the target bitset ``targets`` with at most ``most`` of them (the fewest with ``minimum``).
+
+    Returns (primes, True) when found (and, with ``minimum``, proven fewest), (None, True) when proven impossible,
+    and (primes or None, False) when the deadline came first.
+    """
+    if most < 0:
+        return None, True
+    if not targets:
+        return [], True
+    from ortools.sat.python import cp_model
+
+    model = cp_model.CpModel()
+    x: dict[int, Any] = {}
+    for t in bits_of(targets):
+        lits = []
+        for p in bits_of(pb.covered_by[t]):
+            if p not in x:
+                x[p] = model.NewBoolVar(f"p{p}")
+            lits.append(x[p])
+        model.AddBoolOr(lits)
+    model.Add(sum(x.values()) <= most)
+    if minimum:
+        model.Minimize(sum(x.values()))
+    solver = _solver(deadline)
+    status = solver.Solve(model)
+    if status == cp_model.INFEASIBLE:
+        return None, True
+    if status in (cp_model.OPTIMAL, cp_model.FEASIBLE):
+        picked = sorted(p for p, v in x.items() if solver.BooleanValue(v))
+        return picked, status == cp_model.OPTIMAL or not minimum
+    return None, False
+
+
+def _branch_phases(pb: CoverProblem, g: int, picked: list[int], outputs: int, deadline: float,
+                   progress: Progress) -> tuple[list[int], int, bool, int, list[int]]:
+    """Minimum cover over all ``2**g`` phase assignments by depth-first branching on one output's phase at a time.
+
+    A node fixes the phases of some outputs; its problem asks for their targets only (and the unguarded ones), so
+    its minimum is a lower bound for every assignment below it. Each node asks CP-SAT only whether a cover with at
+    most ``best - 1`` primes exists (a greedy cover that small answers yes without it); "no" prunes the subtree.
+    A leaf (all phases fixed) is solved to its minimum under that cutoff, and a better one becomes the incumbent.
+    Outputs are fixed most expensive first (greedy cover of one output's cheaper phase) and each node tries the
+    phase with the smaller greedy cover first, so good incumbents come early and prune most.
+
+    ``picked`` / ``outputs`` (selected problem outputs, :func:`_selected`): the incumbent to beat. Returns the best
+    cover, its outputs, whether the search covered every assignment before ``deadline``, the nodes visited and the
+    output order.
+    """
+    base, by_guard = 0, [0] * (2 * g)
+    for t in bits_of(pb.open_targets):
+        if pb.guards[t] < 0:
+            base |= 1 << t
+        else:
+            by_guard[pb.guards[t]] |= 1 << t
+    ess = len(pb.chosen)
+
+    def estimate(targets: int) -> int:
+        return len(greedy_cover(pb, (), targets=targets))
+
+    order = sorted(range(g), key=lambda j: (-min(estimate(base | by_guard[j]), estimate(base | by_guard[g + j])), j))
+    best: list = [list(picked), outputs]
+    nodes = 0
+
+    def visit(k: int, targets: int, sel: int, guess: int) -> bool:
+        """Search below the node with ``k`` outputs fixed (``sel``); False when the deadline stopped it."""
+        nonlocal nodes
+        nodes += 1
+        progress.update(**{"phase nodes": nodes})
+        most = len(best[0]) - 1
+        if k == g:
+            got, done = _within(pb, targets, most, True, deadline)
+            if got is not None and len(got) <= most:
+                best[:] = [got, sel]
+                progress.update(**{"best rows": ess + len(got)})
+            return done
+        if guess > most:
+            got, done = _within(pb, targets, most, False, deadline)
+            if got is None:
+                return done
+        j = order[k]
+        kids = sorted((estimate(targets | by_guard[ph * g + j]), ph) for ph in (0, 1))
+        for est, ph in kids:
+            if not visit(k + 1, targets | by_guard[ph * g + j], sel | 1 << (ph * g + j), est):
+                return False
+        return True
+
+    complete = visit(0, base, 0, estimate(base))
+    return best[0], best[1], complete, nodes, order
+
+
+def _prove_phases(pb: CoverProblem, g: int, picked: list[int], outputs: int, order: Sequence[int],
+                  deadline: float) -> tuple[list[int], int, bool, float]:
+    """The all-assignments model asked for a cover better than ``picked``, searched phase first.
+
+    One CP-SAT worker with a fixed search: it fixes the phase variables in ``order``, each first to the incumbent's
+    phase (``outputs``), and its LP relaxation, with all those phases fixed, prunes against the incumbent; the cover
+    primes come after. With a good incumbent this closes the search over all ``2**g`` assignments within one model
+    (no per-node start-up). Returns (best cover, its outputs, proven minimum over all assignments, row bound of the
+    open part over all assignments).
+    """
+    from ortools.sat.python import cp_model
+
+    model = cp_model.CpModel()
+    prime_list = list(bits_of(pb.open_primes))
+    x = {p: model.NewBoolVar(f"p{p}") for p in prime_list}
+    # w_j: output j's phase differs from the incumbent's (the search tries w_j = 0 first)
+    w = [model.NewBoolVar(f"w{j}") for j in range(g)]
+    flip = [bool(outputs >> (g + j) & 1) for j in range(g)]
+
+    def complement(j: int) -> Any:
+        return w[j].Not() if flip[j] else w[j]
+
+    for t in bits_of(pb.open_targets):
+        lits = [x[p] for p in bits_of(pb.covered_by[t])]
+        gd = pb.guards[t]
+        if gd >= 0:
+            lits.append(complement(gd) if gd < g else complement(gd - g).Not())
+        model.AddBoolOr(lits)
+    model.Add(sum(x.values()) <= len(picked) - 1)
+    model.Minimize(sum(x.values()))
+    model.AddDecisionStrategy([w[j] for j in order], cp_model.CHOOSE_FIRST, cp_model.SELECT_MIN_VALUE)
+    solver = cp_model.CpSolver()
+    solver.parameters.num_workers = 1
+    solver.parameters.search_branching = cp_model.FIXED_SEARCH
+    solver.parameters.linearization_level = 2
+    solver.parameters.random_seed = 1
+    solver.parameters.max_time_in_seconds = max(0.05, deadline - time.monotonic())
+    status = solver.Solve(model)
+    if status == cp_model.INFEASIBLE:
+        return picked, outputs, True, float(len(picked))
+    if status in (cp_model.OPTIMAL, cp_model.FEASIBLE):
+        got = [p for p in prime_list if solver.BooleanValue(x[p])]
+        inv = sum(1 << j for j in range(g) if solver.BooleanValue(w[j]) != flip[j])
+        return got, _selected(g, inv), status == cp_model.OPTIMAL, solver.BestObjectiveBound()
+    return picked, outputs, False, min(float(len(picked)), solver.BestObjectiveBound())
 
 
 def _selected(phases: int, inv: int) -> int:
@@ -199,12 +378,29 @@ def solve_exact(f: Sequence[Sequence[Cube]], on: Sequence[Sequence[Cube]], n: in
     progress.update(**{"best rows": ess + len(hint), "rows bound": ess + indep})
     picked: list[int] | None = None
     proven, bound = False, 0.0
-    if time.monotonic() < budget.deadline:
-        progress.stage("solving minimum cover (CP-SAT)")
-        picked, outputs, proven, bound = _cp_sat(pb, open_primes, targets, set(hint), budget.deadline,
+    branch = 0 < phases <= MAX_BRANCH_OUTPUTS
+    now = time.monotonic()
+    if now < budget.deadline:
+        progress.stage("solving minimum cover (CP-SAT)" + (", all phase assignments in one model" if phases else ""))
+        until = budget.deadline
+        if branch:
+            until = min(until, now + max(JOINT_SECONDS, JOINT_SHARE * (budget.deadline - now)))
+        picked, outputs, proven, bound = _cp_sat(pb, open_primes, targets, set(hint), until,
                                                  _Offset(progress, ess), None, phases)
     if picked is None or len(picked) > len(hint):
         picked, outputs, proven = list(hint), heuristic_outputs, False
+    branched = branch and not proven and time.monotonic() < budget.deadline
+    if branched:
+        progress.stage("branching over output phase assignments (CP-SAT per node)")
+        now = time.monotonic()
+        until = min(budget.deadline, now + max(BRANCH_SECONDS, BRANCH_SHARE * (budget.deadline - now)))
+        picked, outputs, proven, nodes, order = _branch_phases(pb, phases, picked, outputs, until, progress)
+        stats.append(("phase_nodes", nodes))
+        if not proven and time.monotonic() < budget.deadline:
+            progress.stage("closing the phase search in one model (CP-SAT, phases first)")
+            picked, outputs, proven, closing = _prove_phases(pb, phases, picked, outputs, order, budget.deadline)
+            bound = max(bound, closing)
+            progress.update(**{"best rows": ess + len(picked)})
     lb = ess + max(indep, math.ceil(bound - 1e-6) if math.isfinite(bound) else 0)
     if proven:
         lb = ess + len(picked)
@@ -215,8 +411,14 @@ def solve_exact(f: Sequence[Sequence[Cube]], on: Sequence[Sequence[Cube]], n: in
     lit_opt = sum(pb.literals[p] for p in picked) == floor
     if not lit_opt and time.monotonic() < budget.deadline - 0.2:
         progress.stage("minimizing literals at that row count (CP-SAT)")
-        picked2, outputs2, lit_opt, _ = _cp_sat(pb, open_primes, targets, set(picked), budget.deadline, progress,
-                                                len(picked), phases)
+        if branched:  # the assignment the branching found, fixed
+            need = [t for t in targets if pb.guards[t] < 0 or outputs >> pb.guards[t] & 1]
+            picked2, _, lit_opt, _ = _cp_sat(pb, open_primes, need, set(picked), budget.deadline, progress,
+                                             len(picked), 0)
+            outputs2 = outputs
+        else:
+            picked2, outputs2, lit_opt, _ = _cp_sat(pb, open_primes, targets, set(picked), budget.deadline,
+                                                    progress, len(picked), phases)
         if picked2 is not None and sum(pb.literals[p] for p in picked2) <= sum(pb.literals[p] for p in picked):
             picked, outputs = picked2, outputs2
     stats.append(("independent_bound", ess + indep))
