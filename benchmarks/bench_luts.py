@@ -81,14 +81,36 @@ def two_level_luts(cover: Cover, k: int) -> LutNetwork:
     return tidy_network(net, "b")
 
 
+# figures of the mapper before the additive decomposition and the depth objective's area recovery (commit 769cb91,
+# its own benchmark run): (suite entry, k) -> (count, depth); the aim rows carry theirs
+PREVIOUS = {
+    ("popcount5", 4): (5, 3), ("popcount5", 6): (3, 1), ("popcount7", 4): (8, 3), ("popcount7", 6): (5, 3),
+    ("sym9_3to6", 4): (9, 3), ("sym9_3to6", 6): (6, 3), ("add2", 4): (3, 1), ("add2", 6): (3, 1), ("add3", 4): (5, 2),
+    ("add3", 6): (4, 1), ("add4", 4): (7, 3), ("add4", 6): (5, 2), ("add6", 4): (11, 5), ("add6", 6): (7, 4),
+    ("mul3x3", 4): (13, 3), ("mul3x3", 6): (6, 1), ("mul4x4", 4): (63, 9), ("mul4x4", 6): (20, 4),
+    ("square6", 4): (26, 3), ("square6", 6): (10, 1), ("isqrt8", 4): (12, 3), ("isqrt8", 6): (6, 2),
+    ("cmp4", 4): (9, 3), ("cmp4", 6): (6, 2), ("bin2gray6", 4): (5, 1), ("bin2gray6", 6): (5, 1),
+    ("gray2bin6", 4): (5, 2), ("gray2bin6", 6): (5, 1), ("bcd2xs3", 4): (4, 1), ("bcd2xs3", 6): (4, 1),
+    ("bcd7seg", 4): (7, 1), ("bcd7seg", 6): (7, 1), ("dec4", 4): (16, 1), ("dec4", 6): (16, 1),
+    ("rand7x4", 4): (52, 4), ("rand7x4", 6): (12, 2), ("rand9x3", 4): (160, 6), ("rand9x3", 6): (32, 3),
+    ("rand11x6", 4): (1281, 8), ("rand11x6", 6): (255, 4), ("wide40", 4): (201, 5), ("wide40", 6): (162, 4),
+}
+
+
+def _prev(key) -> str:
+    got = PREVIOUS.get(key)
+    return f"{got[0]:>5}/{got[1]:<3}" if got else f"{'-':>5} {'':<3}"
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     names = list(argv) if argv else list(SUITE)
     print("plaforge LUT mapping benchmark (python -m benchmarks.bench_luts)")
     print(f"machine: {machine()}")
-    print("count/depth: LUTs and levels; lb: proven lower bounds; 2-level: straightforward mapping of the minimized")
-    print("cover; ratio: plaforge count / lower bound; every network re-checked against its table.")
+    print("count/depth: LUTs and levels; previous: the mapper at commit 769cb91; lb: proven lower bounds;")
+    print("2-level: straightforward mapping of the minimized cover; ratio: plaforge count / lower bound; every network")
+    print("re-checked against its table.")
     print()
-    head = (f"{'function':<10} {'in':>3} {'out':>3} {'k':>2} | {'plaforge':>9} {'2-level':>9} {'lb':>7} | "
+    head = (f"{'function':<10} {'in':>3} {'out':>3} {'k':>2} | {'plaforge':>9} {'previous':>9} {'2-level':>9} {'lb':>7} | "
             f"{'ratio':>5} {'seconds':>7}  method")
     print_header(head)
     results = {}
@@ -110,7 +132,8 @@ def main(argv: Sequence[str] | None = None) -> int:
             ratio = net.count / lb["count"] if lb["count"] else float("nan")
             results[(name, k)] = (net.count, lb["count"])
             print(f"{name:<10} {table.n_inputs:>3} {table.n_outputs:>3} {k:>2} | "
-                  f"{net.count:>5}/{net.depth:<3} {base.count:>5}/{base.depth:<3} {lb['count']:>3}/{lb['depth']:<3} | "
+                  f"{net.count:>5}/{net.depth:<3} {_prev((name, k))} {base.count:>5}/{base.depth:<3} "
+                  f"{lb['count']:>3}/{lb['depth']:<3} | "
                   f"{ratio:>5.2f} {secs:>7.2f}  {net.method}", flush=True)
     if ("add6", 6) in results:
         c, b = results[("add6", 6)]
@@ -122,14 +145,20 @@ def main(argv: Sequence[str] | None = None) -> int:
     return 0
 
 
-# (label, table builder, k, objective, cover source, aim text, test of the aim on (count, depth, seconds))
+# (label, table builder, k, objective, cover source, aim text, test of the aim on (count, depth, seconds),
+# previous printout's count/depth)
 AIMS = [
-    ("add6 (a, b LSB first)", lambda: adder(6), 6, "area", "minimized", "7 LUTs", lambda c, d, s: c <= 7),
-    ("add6 (a, b MSB first)", lambda: adder_msb_first(6), 6, "area", "minimized", "7 LUTs", lambda c, d, s: c <= 7),
-    ("mul4x4", lambda: multiplier(4, 4), 4, "area", "minimized", "<= 45 LUTs", lambda c, d, s: c <= 45),
-    ("sine8", sine_table, 4, "depth", "minimized", "depth <= 5", lambda c, d, s: d <= 5),
-    *[("fd20x5 (41 rows)", fd_rows, k, "area", "minimized", "<= 10 s", lambda c, d, s: s <= 10) for k in (3, 4, 5, 6)],
-    ("onoff20 (~6000 rows)", onoff_rows, 4, "area", "ON rows", "<= 30 s", lambda c, d, s: s <= 30),
+    ("add6 (a, b LSB first)", lambda: adder(6), 6, "area", "minimized", "7 LUTs", lambda c, d, s: c <= 7, (7, 4)),
+    ("add6 (a, b MSB first)", lambda: adder_msb_first(6), 6, "area", "minimized", "7 LUTs", lambda c, d, s: c <= 7,
+     (7, 4)),
+    ("mul4x4", lambda: multiplier(4, 4), 4, "area", "minimized", "<= 45 LUTs", lambda c, d, s: c <= 45, (63, 9)),
+    ("mul4x4", lambda: multiplier(4, 4), 4, "depth", "minimized", "-", lambda c, d, s: True,
+     (187, 5)),
+    ("sine8", sine_table, 4, "area", "minimized", "-", lambda c, d, s: True, (81, 7)),
+    ("sine8", sine_table, 4, "depth", "minimized", "depth <= 5", lambda c, d, s: d <= 5, (379, 5)),
+    *[("fd20x5 (41 rows)", fd_rows, k, "area", "minimized", "<= 10 s", lambda c, d, s: s <= 10, old)
+      for k, old in ((3, (236, 7)), (4, (159, 5)), (5, (144, 4)), (6, (123, 4)))],
+    ("onoff20 (~6000 rows)", onoff_rows, 4, "area", "ON rows", "<= 30 s", lambda c, d, s: s <= 30, (10, 3)),
 ]
 
 
@@ -138,9 +167,10 @@ def aims() -> int:
     print()
     print("issue 12 aims (seconds: map_luts alone; the cover is minimized beforehand, or for the ON/OFF row list")
     print("the ON rows themselves, since minimizing that table is not what is measured here)")
-    head = f"{'function':<22} {'k':>2} {'objective':<9} | {'count/depth':>11} {'lb':>7} {'seconds':>8} | aim"
+    head = (f"{'function':<22} {'k':>2} {'objective':<9} | {'count/depth':>11} {'previous':>9} {'lb':>7} "
+            f"{'seconds':>8} | aim")
     print_header(head)
-    for label, build, k, objective, source, aim, met in AIMS:
+    for label, build, k, objective, source, aim, met, old in AIMS:
         table = build()
         if source == "ON rows":
             cubes = tuple(c for j in range(table.n_outputs) for c in table.on[j])  # type: ignore[union-attr]
@@ -152,8 +182,9 @@ def aims() -> int:
         secs = time.perf_counter() - t0
         lb = net.lower_bounds
         ok = met(net.count, net.depth, secs)
-        print(f"{label:<22} {k:>2} {objective:<9} | {net.count:>6}/{net.depth:<4} {lb['count']:>3}/{lb['depth']:<3} "
-              f"{secs:>8.2f} | {aim}: {'met' if ok else 'NOT met'}", flush=True)
+        print(f"{label:<22} {k:>2} {objective:<9} | {net.count:>6}/{net.depth:<4} {old[0]:>5}/{old[1]:<3} "
+              f"{lb['count']:>3}/{lb['depth']:<3} {secs:>8.2f} | {aim if aim == '-' else aim + (': met' if ok else ': NOT met')}",
+              flush=True)
     return 0
 
 

@@ -138,3 +138,17 @@ def test_depth_objective_is_not_deeper_than_area_on_the_multiplier():
     depth = map_luts(t, cover, 4, LutOptions(objective="depth"))
     _check_product(depth, order, 4)
     assert depth.depth <= area.depth
+
+
+def test_product_bits_listed_most_significant_first_map_the_same():
+    # the same 4x4-bit product with the output columns r[7] .. r[0]: the word is read the other way round
+    t, _ = _multiplier(4, 4)
+    lsb_first = map_luts(t, minimize(t), 4).count
+    names = [f"a[{i}]" for i in range(4)] + [f"b[{i}]" for i in range(4)]
+    rev = Table.from_function(names, [f"r[{7 - i}]" for i in range(8)],
+                              lambda p: [(((p & 15) * (p >> 4)) >> (7 - i) & 1).astype(bool) for i in range(8)])
+    net = map_luts(rev, minimize(rev), 4)
+    assert net.count == lsb_first
+    for p in range(256):
+        got = net.evaluate(p)
+        assert sum((got >> j & 1) << (7 - j) for j in range(8)) == (p & 15) * (p >> 4)  # Python integers
