@@ -191,12 +191,22 @@ def _drop_target(pb: CoverProblem, t: int) -> None:
 
 
 def reduce_problem(pb: CoverProblem, deadline: float) -> None:
-    """Essentials, target dominance and prime dominance, repeated until nothing changes (or the deadline)."""
+    """Essentials, target dominance and prime dominance, repeated until nothing changes (or the deadline, checked
+    every few steps: each reduction alone keeps a minimum cover, so stopping anywhere leaves a sound problem)."""
     changed = True
+    steps = 0
+
+    def late() -> bool:
+        nonlocal steps
+        steps += 1
+        return steps % 64 == 0 and time.monotonic() >= deadline
+
     while changed and time.monotonic() < deadline:
         changed = False
         # essentials
         for t in list(bits_of(pb.open_targets)):
+            if late():
+                return
             if not pb.open_targets >> t & 1:
                 continue
             ps = pb.covered_by[t]
@@ -210,6 +220,8 @@ def reduce_problem(pb: CoverProblem, deadline: float) -> None:
         # target dominance: drop targets that contain all primes of a smaller target
         order = sorted(bits_of(pb.open_targets), key=lambda t: pb.covered_by[t].bit_count())
         for t in order:
+            if late():
+                return
             if not pb.open_targets >> t & 1:
                 continue
             sup = pb.open_targets
@@ -227,6 +239,8 @@ def reduce_problem(pb: CoverProblem, deadline: float) -> None:
         # prime dominance: drop primes whose targets another prime covers at no more literals
         order = sorted(bits_of(pb.open_primes), key=lambda p: (pb.covers[p].bit_count(), -pb.literals[p]))
         for p in order:
+            if late():
+                return
             if not pb.open_primes >> p & 1:
                 continue
             ts = pb.covers[p] & pb.open_targets
