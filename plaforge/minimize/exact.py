@@ -50,9 +50,13 @@ the assignment found (over all assignments when the one model proved it).
 Limits
 ------
 Everything runs against one deadline (the whole call's ``--time-limit``) and one memory budget (``--memory-limit``):
-prime generation and the matrix check the deadline as they go and estimate memory before allocating
-(:class:`~plaforge.core.errors.SizeLimit` with the figure). Past the deadline the best cover so far (the seed's) is
-returned with ``optimal`` false; with no cover at all the call raises :class:`~plaforge.core.errors.TimeLimit`.
+the seed (the heuristic in fast effort, in its child process, half the time left), prime generation, the matrix,
+the reductions and every solver call check the deadline as they go, and the steps that can blow up estimate memory
+before allocating (:class:`~plaforge.core.errors.SizeLimit` with the figure). The search stops
+:data:`_RESERVE_SHARE` of the time early (at most :data:`_RESERVE_MAX` seconds) so that the cover's last steps
+(irredundant rows, a cheap bound, the verification) end by the deadline. Past it the best cover so far (the
+solver's, else the seed's) is returned with ``optimal`` false and a bound valid for it; with no cover at all the call
+raises :class:`~plaforge.core.errors.TimeLimit` (exit status 3, one line).
 """
 
 from __future__ import annotations
@@ -267,6 +271,8 @@ def _branch_phases(pb: CoverProblem, g: int, picked: list[int], outputs: int, de
     def visit(k: int, targets: int, sel: int, guess: int) -> bool:
         """Search below the node with ``k`` outputs fixed (``sel``); False when the deadline stopped it."""
         nonlocal nodes
+        if time.monotonic() >= deadline:
+            return False
         nodes += 1
         progress.update(**{"phase nodes": nodes})
         most = len(best[0]) - 1
