@@ -35,7 +35,8 @@ The minimizer is a local descent, so where it starts matters. ``fast``: one run 
 :data:`SIGNATURE_LIMIT` inputs and 64 outputs start B, the regions of constant output signature written as cubes,
 each carrying the whole signature; above ``ORDER_FROM`` inputs, when ON rows overlap don't-care rows, the other feed
 of those rows (as given or cut, see above), and otherwise the same rows in the spec's column order. The first of
-the two to answer is "the first answer". Everything else is dropped when the first answer already meets the lower
+the two to answer is "the first answer". On a large table the second start runs only when a core is idle
+(:func:`spare_core`: on a busy machine it would slow the first one down instead). Everything else is dropped when the first answer already meets the lower
 bound. Otherwise the other start is given :func:`extra_window` more: :data:`EXTRA_SHARE` of the first answer's time,
 or :data:`EXTRA_FLOOR` seconds on a small table (:func:`is_small`, decided by size so that results do not depend on
 the machine's load); only on a small one (where it can finish) one more descent runs from each result, fed back with the same don't-care or OFF rows. Unfinished work is
@@ -60,6 +61,7 @@ may end the whole process on some internal errors. It therefore runs in child pr
 
 from __future__ import annotations
 
+import os
 import time
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
@@ -91,6 +93,8 @@ EXTRA_FLOOR = 1.0
 SMALL_INPUTS = 12
 #: ... and at most this many (inputs + outputs) x rows given.
 SMALL_SIZE = 16384
+#: Idle cores (cores minus load average) needed before a large table gets a second start.
+SPARE = 0.5
 #: Seconds between two looks at the starts while waiting for the first answer.
 POLL = 0.02
 
@@ -312,6 +316,21 @@ def is_small(n: int, m: int, given: int) -> bool:
     return n <= SMALL_INPUTS and (n + m) * given <= SMALL_SIZE
 
 
+def spare_core() -> bool:
+    """Whether a core is idle for a second start beside the first (and this process): the cores this process may
+    use minus the 1-minute load average, which counts this process, is at least one half. On a machine already busy
+    a second start would only slow the first one down."""
+    try:
+        cores = len(os.sched_getaffinity(0))
+    except AttributeError:  # platforms without affinity
+        cores = os.cpu_count() or 1
+    try:
+        load = os.getloadavg()[0]
+    except OSError:
+        return cores > 1
+    return cores - load >= SPARE
+
+
 def extra_window(t_first: float, small: bool) -> float:
     """Seconds the ``normal`` effort gives other starts after the first answer, which took ``t_first``."""
     return max(EXTRA_FLOOR, EXTRA_SHARE * t_first) if small else EXTRA_SHARE * t_first
@@ -328,7 +347,9 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
     repeat = 1 << 20 if effort == "high" else 0
     starts: list[tuple[Job, Isolated | _Done]] = [(job, _call(_descend, (job, None, 0), options))]
     try:
-        second = second_of() if effort != "fast" else None  # type: ignore[operator]
+        small = is_small(job.n, job.m, len(job.rows))
+        wanted = effort == "high" or (effort == "normal" and (small or spare_core()))
+        second = second_of() if wanted else None  # type: ignore[operator]
         if second is not None:
             starts.append((second[0], _call(_descend, (second[0], None, 0), options)))
         progress.stage("start A: the rows as given" + (f", start B: {second[1]}" if second else ""))
@@ -338,7 +359,6 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
         if effort == "fast" or len(rows) <= bound:
             return starts[first][0], rows, bound
         t_a = time.monotonic() - t0
-        small = is_small(job.n, job.m, len(job.rows))
         window = extra_window(t_a, small)
         extra_end = deadline if effort == "high" else min(deadline, time.monotonic() + window)
         progress.update(rows_a=len(rows))
