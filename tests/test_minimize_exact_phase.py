@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import json
+import math
+import time
 from collections.abc import Callable
 
 import numpy as np
@@ -11,7 +13,10 @@ from click.testing import CliRunner
 
 from plaforge.cli import cli
 from plaforge.core.table import Table
-from plaforge.minimize import MinimizeOptions, cover_summary, minimize
+from plaforge.minimize import MinimizeOptions, cover_summary, exact, minimize
+from plaforge.minimize.covering import CoverProblem, build_problem, reduce_problem
+from plaforge.minimize.primes import Budget, multi_output_primes
+from plaforge.minimize.progress import Progress
 from plaforge.verify.equivalence import check_cover
 
 EXACT = MinimizeOptions(exact=True, time_limit=60)
@@ -109,7 +114,53 @@ def test_per_output_json_counts_terms_total(tmp_path) -> None:
     assert data["optimal"] is True and data["lower_bound"] == data["terms_total"]
 
 
+def _double_phase_problem(t: Table) -> CoverProblem:
+    """The reduced covering problem the exact path builds for ``--phase`` (outputs j and m + j, guarded)."""
+    m, n = t.n_outputs, t.n_inputs
+    true_sets, comp_sets = t.cover_sets(0), t.cover_sets((1 << m) - 1)
+    on = [true_sets.on[j] for j in range(m)] + [comp_sets.on[j] for j in range(m)]
+    f = [true_sets.on[j] + true_sets.dc[j] for j in range(m)] + [comp_sets.on[j] + comp_sets.dc[j] for j in range(m)]
+    budget = Budget(time.monotonic() + 3600, 1 << 30)
+    pb = build_problem(multi_output_primes(f, on, n, budget, 10**6), on, n, budget, guarded=True)
+    reduce_problem(pb, budget.deadline)
+    return pb
+
+
+def _covers_needed(pb: CoverProblem, chosen: list[int], selected: int) -> bool:
+    covered = 0
+    for p in chosen:
+        covered |= pb.covers[p]
+    return pb.needed(selected) & ~covered == 0
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_branching_and_closing_reach_the_brute_force_minimum(seed: int) -> None:
+    # both phase searches run to their end from a poor incumbent (greedy, all outputs in true phase) on their own,
+    # without the all-assignments model that proves small tables first, and must meet the brute force
+    rng = np.random.default_rng(200 + seed)
+    n, m = 5, 3 + seed % 2
+    draw = rng.random((m, 1 << n))
+
+    def on(p: np.ndarray) -> list[np.ndarray]:
+        return [draw[j][p] < 0.5 for j in range(m)]
+
+    t = _table(n, m, on)
+    want = _brute_force_phase_minimum(n, m, on, None)
+    pb = _double_phase_problem(t)
+    ess = len(pb.chosen)
+    start_sel = exact._selected(m, 0)
+    start = exact.greedy_cover(pb, (), start_sel)
+    far = time.monotonic() + 3600
+    chosen, sel, complete, nodes, order = exact._branch_phases(pb, m, start, start_sel, far, Progress(False, ""))
+    assert complete and nodes >= 1 and sorted(order) == list(range(m))
+    assert ess + len(chosen) == want and _covers_needed(pb, chosen, sel)
+    chosen, sel, proven, bound = exact._prove_phases(pb, m, start, start_sel, range(m), far)
+    assert proven and ess + len(chosen) == want and _covers_needed(pb, chosen, sel)
+    assert math.isclose(bound, len(chosen))
+
+
 def _mul4x4(p: np.ndarray) -> list[np.ndarray]:
+    # integer multiplication of two 4-bit numbers, product bit k (common practice)
     prod = (p & 15) * (p >> 4)
     return [(prod >> k & 1).astype(bool) for k in range(8)]
 
@@ -117,10 +168,25 @@ def _mul4x4(p: np.ndarray) -> list[np.ndarray]:
 @pytest.mark.slow
 def test_mul4x4_phase_minimum_is_107() -> None:
     t = _table(8, 8, _mul4x4)
-    cover = minimize(t, MinimizeOptions(exact=True, phase=True, time_limit=120))
+    # a generous limit so a loaded machine still finishes (60 s suffice on an idle one: benchmarks.bench_phase)
+    cover = minimize(t, MinimizeOptions(exact=True, phase=True, time_limit=300))
     assert check_cover(t, cover).passed
-    # measured by an independent exact solver over all 256 phase assignments: 107 rows
-    assert cover.rows >= 107
-    assert cover.lower_bound <= 107
-    if cover.optimal:
-        assert cover.rows == 107
+    # 107 rows over all 256 phase assignments: measured by an independent exact solver (quoted in issue 9) and by
+    # `python -m benchmarks.bench_phase`, which minimizes every assignment exactly on its own (run on 2 Dec 2026:
+    # 256 proven runs, minimum 107, reached only with p[1], p[3] and p[6] inverted)
+    assert cover.optimal and cover.rows == 107 and cover.lower_bound == 107
+    # A cheaper confirmation than the 256 runs: the winning assignment minimized exactly without --phase gives
+    # the same 107 rows, and its neighbours (one output flipped) plus all-true and all-complement give no fewer.
+    inv = cover.inverted
+
+    def minimum(assignment: int) -> int:
+        def flipped(p: np.ndarray) -> list[np.ndarray]:
+            return [~v if assignment >> j & 1 else v for j, v in enumerate(_mul4x4(p))]
+
+        res = minimize(_table(8, 8, flipped), EXACT)
+        assert res.optimal
+        return res.rows
+
+    assert minimum(inv) == 107
+    for other in [0, 255] + [inv ^ (1 << j) for j in range(8)]:
+        assert minimum(other) >= 107
