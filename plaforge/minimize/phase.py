@@ -77,7 +77,10 @@ def assign_phases(table: Table, options: MinimizeOptions, deadline: float) -> tu
     per_output = options.cost == "per-output"
     start = time.monotonic()
     share_end = start + (deadline - start) * BUDGET_SHARE
-    first = heuristic_cubes(table.cover_sets(0), replace(options, time_limit=max(0.05, share_end - start)))
+    try:
+        first = heuristic_cubes(table.cover_sets(0), replace(options, time_limit=max(0.05, share_end - start)))
+    except TimeLimit:  # no cover in the search's share: true phase, search stopped (the caller has time left)
+        return 0, False
     best_inv, best = 0, phase_cost(first, per_output)
     end = min(share_end, time.monotonic() + BUDGET_FACTOR * (time.monotonic() - start) + 1.0)
 
