@@ -2,11 +2,16 @@
 
 from __future__ import annotations
 
+import time
+
 import numpy as np
+import pytest
 
 from plaforge.core.cube import Cube
+from plaforge.core.errors import TimeLimit
 from plaforge.core.table import Table
 from plaforge.minimize import MinimizeOptions, cover_summary, minimize
+from plaforge.minimize.exact import minimize_exact
 from plaforge.minimize.result import verify_cover
 from plaforge.verify.equivalence import check_cover
 
@@ -76,3 +81,36 @@ def test_heuristic_bound_above_ten_inputs() -> None:
     # textbook fact: parity of 5 variables needs 2^4 = 16 terms, no two ON cells adjacent
     assert cover.rows == 16 and cover.lower_bound == 16 and cover.optimal
     assert cover_summary(cover)["lower_bound"] == 16
+
+
+def _popcount7() -> Table:
+    def fn(p: np.ndarray) -> list[np.ndarray]:
+        c = sum((p >> i) & 1 for i in range(7))
+        return [(c >> k & 1).astype(bool) for k in range(3)]
+
+    return Table.from_function([f"x[{i}]" for i in range(7)], ["c[0]", "c[1]", "c[2]"], fn)
+
+
+def test_past_the_deadline_the_seed_comes_back_unproven() -> None:
+    # the deadline has already passed when the exact path starts: it must not search, only hand back the cover it
+    # was seeded with, verified, not optimal, with a bound it can stand by (no clock is read by the test)
+    t = _popcount7()
+    seed_cover = minimize(t)
+
+    def seed(fs: object, options: MinimizeOptions) -> list[Cube]:
+        return list(seed_cover.cubes)
+
+    cover = minimize_exact(t, EXACT, 0, seed, time.monotonic() - 1.0)
+    verify_cover(t, cover, "test")
+    assert not cover.optimal and cover.rows == seed_cover.rows
+    assert ("stopped", "time limit") in cover.extra
+    assert 1 <= cover.lower_bound <= cover.rows
+
+
+def test_past_the_deadline_without_any_cover_is_a_time_limit() -> None:
+    def seed(fs: object, options: MinimizeOptions) -> list[Cube]:
+        raise TimeLimit("the heuristic minimizer did not finish", "--time-limit")
+
+    with pytest.raises(TimeLimit) as info:
+        minimize_exact(_popcount7(), EXACT, 0, seed, time.monotonic() - 1.0)
+    assert "\n" not in str(info.value)

@@ -554,7 +554,8 @@ def minimize_exact(table: Table, options: MinimizeOptions, inverted: int, seed: 
         groups = [_Group([j], options.phase) for j in range(m)] if per_output else [_Group(list(range(m)),
                                                                                             options.phase)]
         for k, grp in enumerate(groups):
-            sub_deadline = time.monotonic() + max(0.05, (deadline - time.monotonic()) / (len(groups) - k))
+            now = time.monotonic()
+            sub_deadline = now + max(0.0, (deadline - now) / (len(groups) - k))  # none past the deadline
             on = [sets[0].on[j] for j in grp.outputs]
             f = [sets[0].on[j] + sets[0].dc[j] for j in grp.outputs]
             if options.phase:
