@@ -151,8 +151,9 @@ def test_branching_and_closing_reach_the_brute_force_minimum(seed: int) -> None:
     start_sel = exact._selected(m, 0)
     start = exact.greedy_cover(pb, (), start_sel)
     far = time.monotonic() + 3600
-    chosen, sel, complete, nodes, order = exact._branch_phases(pb, m, start, start_sel, far, Progress(False, ""))
-    assert complete and nodes >= 1 and sorted(order) == list(range(m))
+    chosen, sel, complete, nodes, order, low = exact._branch_phases(pb, m, start, start_sel, far,
+                                                                    Progress(False, ""))
+    assert complete and nodes >= 1 and sorted(order) == list(range(m)) and low == len(chosen)
     assert ess + len(chosen) == want and _covers_needed(pb, chosen, sel)
     chosen, sel, proven, bound = exact._prove_phases(pb, m, start, start_sel, range(m), far)
     assert proven and ess + len(chosen) == want and _covers_needed(pb, chosen, sel)

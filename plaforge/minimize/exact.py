@@ -32,19 +32,21 @@ That model proves small groups at once, but its LP relaxation is weak (``y_j = 1
 4x4-bit multiplier (8 outputs) it ended at 110 rows, bound 80, after 120 s. So it gets a short slice
 (:data:`JOINT_SHARE`), and groups of up to :data:`MAX_BRANCH_OUTPUTS` outputs then go on in two steps:
 
-1. *Branching node by node* (:func:`_branch_phases`, :data:`BRANCH_SHARE` of the time): depth-first over the
-   outputs' phases; a node's problem holds the targets of the outputs fixed so far, so "no cover with fewer primes
-   than the incumbent" (one CP-SAT call, often proven in a few hundredths of a second) prunes the whole subtree,
-   and a leaf is solved to its minimum under that cutoff. Greedy covers order the outputs and the phases, so good
-   incumbents come early. Small groups finish here.
+1. *Branching node by node* (:func:`_branch_phases`, :data:`BRANCH_SHARE` of the time, all of it up to
+   :data:`BRANCH_ALONE_OUTPUTS` outputs): depth-first over the outputs' phases; a node's problem holds the targets
+   of the outputs fixed so far, so "no cover with fewer primes than the incumbent" (one CP-SAT call, often proven
+   in a few hundredths of a second) prunes the whole subtree, and a leaf is solved to its minimum under that
+   cutoff. Greedy covers order the outputs and the phases, so good incumbents come early. Small groups finish
+   here; when the time ends inside a leaf with every other subtree settled, that leaf's solver bound gives the
+   bound over all assignments.
 2. *Closing in one model* (:func:`_prove_phases`, the rest of the time): the all-assignments model asked for a
    cover better than the incumbent, with a fixed search that sets the phases first (incumbent's phase first); with
    every phase fixed its LP is the tight one of that assignment, and one model has no start-up per node. Measured
    on the 4x4-bit multiplier: with an incumbent of 110 rows it proves 107 in about 3 s; from 112 it did not finish
    in 60 s, hence step 1 first.
 
-``optimal`` is true only when one of these covered every assignment; otherwise the bound is the all-assignments
-model's (or the cheap phase bound), valid for every assignment. Literals are then minimized at that row count for
+``optimal`` is true only when one of these covered every assignment; otherwise the bound is the best of the
+all-assignments model's, the branching's and the cheap phase bound, each valid for every assignment. Literals are then minimized at that row count for
 the assignment found (over all assignments when the one model proved it).
 
 Limits
@@ -108,6 +110,9 @@ JOINT_SECONDS = 0.5
 #: otherwise finds the incumbent that lets :func:`_prove_phases` close the search.
 BRANCH_SHARE = 0.1
 BRANCH_SECONDS = 2.0
+#: Up to this many outputs (16 assignments) branching gets all the time: closing in one model does not help there
+#: (a 9-input, 3-output random table: 166 rows, bound 164 by branching alone; 167 rows when closing took over).
+BRANCH_ALONE_OUTPUTS = 4
 
 
 # -- mapping heuristic cubes to primes -----------------------------------------------------------------------------
@@ -204,16 +209,17 @@ def _cp_sat(pb: CoverProblem, primes: list[int], targets: list[int], hint: set[i
 
 
 def _within(pb: CoverProblem, targets: int, most: int, minimum: bool,
-            deadline: float) -> tuple[list[int] | None, bool]:
+            deadline: float) -> tuple[list[int] | None, bool, int]:
     """Primes covering the target bitset ``targets`` with at most ``most`` of them (the fewest with ``minimum``).
 
-    Returns (primes, True) when found (and, with ``minimum``, proven fewest), (None, True) when proven impossible,
-    and (primes or None, False) when the deadline came first.
+    Returns (primes, True, ...) when found (and, with ``minimum``, proven fewest), (None, True, ...) when proven
+    impossible, and (primes or None, False, ...) when the deadline came first; last, a lower bound on the fewest
+    primes covering ``targets`` (0 when nothing is known).
     """
     if most < 0:
-        return None, True
+        return None, True, most + 1
     if not targets:
-        return [], True
+        return [], True, 0
     from ortools.sat.python import cp_model
 
     model = cp_model.CpModel()
@@ -231,15 +237,18 @@ def _within(pb: CoverProblem, targets: int, most: int, minimum: bool,
     solver = _solver(deadline)
     status = solver.Solve(model)
     if status == cp_model.INFEASIBLE:
-        return None, True
+        return None, True, most + 1
+    # with the objective, its bound holds for covers of at most `most` primes: the fewest is at least the smaller
+    low = min(most + 1, math.ceil(solver.BestObjectiveBound() - 1e-6)) if minimum else 0
     if status in (cp_model.OPTIMAL, cp_model.FEASIBLE):
         picked = sorted(p for p, v in x.items() if solver.BooleanValue(v))
-        return picked, status == cp_model.OPTIMAL or not minimum
-    return None, False
+        proven = status == cp_model.OPTIMAL or not minimum
+        return picked, proven, len(picked) if proven and minimum else low
+    return None, False, low
 
 
 def _branch_phases(pb: CoverProblem, g: int, picked: list[int], outputs: int, deadline: float,
-                   progress: Progress) -> tuple[list[int], int, bool, int, list[int]]:
+                   progress: Progress) -> tuple[list[int], int, bool, int, list[int], int]:
     """Minimum cover over all ``2**g`` phase assignments by depth-first branching on one output's phase at a time.
 
     A node fixes the phases of some outputs; its problem asks for their targets only (and the unguarded ones), so
@@ -250,8 +259,9 @@ def _branch_phases(pb: CoverProblem, g: int, picked: list[int], outputs: int, de
     phase with the smaller greedy cover first, so good incumbents come early and prune most.
 
     ``picked`` / ``outputs`` (selected problem outputs, :func:`_selected`): the incumbent to beat. Returns the best
-    cover, its outputs, whether the search covered every assignment before ``deadline``, the nodes visited and the
-    output order.
+    cover, its outputs, whether the search covered every assignment before ``deadline``, the nodes visited, the
+    output order, and a lower bound on the primes over all assignments (pruned subtrees count as the incumbent,
+    a leaf stopped by the deadline as its solver's bound; 0 when some subtree was never reached).
     """
     base, by_guard = 0, [0] * (2 * g)
     for t in bits_of(pb.open_targets):
@@ -268,33 +278,37 @@ def _branch_phases(pb: CoverProblem, g: int, picked: list[int], outputs: int, de
     best: list = [list(picked), outputs]
     nodes = 0
 
-    def visit(k: int, targets: int, sel: int, guess: int) -> bool:
-        """Search below the node with ``k`` outputs fixed (``sel``); False when the deadline stopped it."""
+    def visit(k: int, targets: int, sel: int, guess: int) -> tuple[bool, int]:
+        """Search below the node with ``k`` outputs fixed (``sel``): whether it finished before the deadline, and a
+        lower bound on the primes of every assignment below it (0 when unknown)."""
         nonlocal nodes
         if time.monotonic() >= deadline:
-            return False
+            return False, 0
         nodes += 1
         progress.update(**{"phase nodes": nodes})
         most = len(best[0]) - 1
         if k == g:
-            got, done = _within(pb, targets, most, True, deadline)
+            got, done, low = _within(pb, targets, most, True, deadline)
             if got is not None and len(got) <= most:
                 best[:] = [got, sel]
                 progress.update(**{"best rows": ess + len(got)})
-            return done
+            return done, low
         if guess > most:
-            got, done = _within(pb, targets, most, False, deadline)
+            got, done, low = _within(pb, targets, most, False, deadline)
             if got is None:
-                return done
+                return done, low
         j = order[k]
         kids = sorted((estimate(targets | by_guard[ph * g + j]), ph) for ph in (0, 1))
+        lows = []
         for est, ph in kids:
-            if not visit(k + 1, targets | by_guard[ph * g + j], sel | 1 << (ph * g + j), est):
-                return False
-        return True
+            done, low = visit(k + 1, targets | by_guard[ph * g + j], sel | 1 << (ph * g + j), est)
+            lows.append(low)
+            if not done:
+                return False, min(lows) if len(lows) == 2 else 0
+        return True, min(lows)
 
-    complete = visit(0, base, 0, estimate(base))
-    return best[0], best[1], complete, nodes, order
+    complete, low = visit(0, base, 0, estimate(base))
+    return best[0], best[1], complete, nodes, order, min(low, len(best[0]))
 
 
 def _prove_phases(pb: CoverProblem, g: int, picked: list[int], outputs: int, order: Sequence[int],
@@ -406,9 +420,11 @@ def solve_exact(f: Sequence[Sequence[Cube]], on: Sequence[Sequence[Cube]], n: in
     if branched:
         progress.stage("branching over output phase assignments (CP-SAT per node)")
         now = time.monotonic()
-        until = min(budget.deadline, now + max(BRANCH_SECONDS, BRANCH_SHARE * (budget.deadline - now)))
-        picked, outputs, proven, nodes, order = _branch_phases(pb, phases, picked, outputs, until, progress)
+        share = 1.0 if phases <= BRANCH_ALONE_OUTPUTS else BRANCH_SHARE
+        until = min(budget.deadline, now + max(BRANCH_SECONDS, share * (budget.deadline - now)))
+        picked, outputs, proven, nodes, order, low = _branch_phases(pb, phases, picked, outputs, until, progress)
         stats.append(("phase_nodes", nodes))
+        bound = max(bound, low)
         if not proven and time.monotonic() < budget.deadline:
             progress.stage("closing the phase search in one model (CP-SAT, phases first)")
             picked, outputs, proven, closing = _prove_phases(pb, phases, picked, outputs, order, budget.deadline)
