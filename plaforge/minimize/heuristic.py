@@ -289,7 +289,7 @@ def time_limit(options: MinimizeOptions, n: int, m: int, given: int) -> tuple[fl
                     f"/ {SCALE_DIVISOR} s)")
 
 
-def _first_answer(starts: Sequence[tuple[Job, Isolated | _Done]], deadline: float, note: str
+def _first_answer(starts: Sequence[tuple[Job, Isolated | _Done]], deadline: float, limit: float, note: str
                   ) -> tuple[int, list[Row]]:
     """Index and rows of whichever start answers first. The first start is the one that must answer: its errors
     (and its time limit) are raised; a later start that fails is dropped."""
@@ -306,7 +306,7 @@ def _first_answer(starts: Sequence[tuple[Job, Isolated | _Done]], deadline: floa
                     alive.remove(k)
         left = deadline - time.monotonic()
         if left <= 0:
-            return 0, starts[0][1].result(0, note)  # type: ignore[return-value]
+            raise TimeLimit(f"the heuristic minimizer did not finish within {limit:g} s{note}", "--time-limit")
         starts[alive[0]][1].wait(min(POLL, left))
 
 
@@ -354,7 +354,7 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
             starts.append((second[0], _call(_descend, (second[0], None, 0), options)))
         progress.stage("start A: the rows as given" + (f", start B: {second[1]}" if second else ""))
         bound = bound_of()  # type: ignore[operator]
-        first, rows = _first_answer(starts, deadline, note)
+        first, rows = _first_answer(starts, deadline, limit, note)
         results: list[tuple[Job, list[Row]]] = [(starts[first][0], rows)]
         if effort == "fast" or len(rows) <= bound:
             return starts[first][0], rows, bound
