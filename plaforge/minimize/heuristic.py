@@ -98,8 +98,12 @@ SPARE = 0.5
 #: Seconds between two looks at the starts while waiting for the first answer.
 POLL = 0.02
 
-#: Seconds the lower bound may take (computed while the first start runs).
+#: Seconds the lower bound may take (computed while the first start runs) ...
 BOUND_SECONDS = 0.5
+#: ... except on a large table whose first answer came before that: this share of the answer's time, at least
+#: ``BOUND_FLOOR`` seconds.
+BOUND_SHARE = 0.2
+BOUND_FLOOR = 0.05
 #: Default time limit: at least ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds.
 SCALE_DIVISOR = 500
 
@@ -331,6 +335,17 @@ def spare_core() -> bool:
     return cores - load >= SPARE
 
 
+def _wait_any(starts: Sequence[tuple[Job, Isolated | _Done]], until: float) -> bool:
+    """Wait until some start has answered (or ended), at most until ``until``; whether one has."""
+    while True:
+        if any(pending.wait(0) for _, pending in starts):
+            return True
+        left = until - time.monotonic()
+        if left <= 0:
+            return False
+        starts[0][1].wait(min(POLL, left))
+
+
 def extra_window(t_first: float, small: bool) -> float:
     """Seconds the ``normal`` effort gives other starts after the first answer, which took ``t_first``."""
     return max(EXTRA_FLOOR, EXTRA_SHARE * t_first) if small else EXTRA_SHARE * t_first
@@ -340,7 +355,7 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
                 note: str, progress: Progress) -> tuple[Job, list[Row], int]:
     """Start A (and a second start, ``second_of()`` built while A runs), then descents, as ``options.effort``
     allows (module docs); the best result with the job it answers (their column orders differ) and the lower bound
-    ``bound_of()``, computed here while the starts run."""
+    ``bound_of(seconds)``, computed here while the starts run."""
     t0 = time.monotonic()
     deadline = t0 + limit
     effort = options.effort
@@ -353,7 +368,15 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
         if second is not None:
             starts.append((second[0], _call(_descend, (second[0], None, 0), options)))
         progress.stage("start A: the rows as given" + (f", start B: {second[1]}" if second else ""))
-        bound = bound_of()  # type: ignore[operator]
+        bound = None
+        if not small:
+            # a large table whose first answer comes quickly should not wait for a full bound: the bound then
+            # gets a share of that answer's time (a greedy bound stopped early is still a bound)
+            early = _wait_any(starts, min(deadline, time.monotonic() + BOUND_SECONDS))
+            if early:
+                bound = bound_of(max(BOUND_FLOOR, BOUND_SHARE * (time.monotonic() - t0)))  # type: ignore[operator]
+        if bound is None:
+            bound = bound_of(BOUND_SECONDS)  # type: ignore[operator]
         first, rows = _first_answer(starts, deadline, limit, note)
         results: list[tuple[Job, list[Row]]] = [(starts[first][0], rows)]
         if effort == "fast" or len(rows) <= bound:
@@ -409,7 +432,7 @@ def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, second_
         if per_output is not None:
             repeat = 0 if options.effort == "fast" else 1 if options.effort == "normal" else 1 << 20
             run = _call(_per_output, (per_output, repeat), options)
-            bound = bound_of()  # type: ignore[operator]
+            bound = bound_of(BOUND_SECONDS)  # type: ignore[operator]
             res = run.result(limit, note)  # type: ignore[union-attr]
             return sort_cubes(merge_identical(c for k, (job, rows) in enumerate(zip(per_output, res))
                                               for c in _decode(job, rows, k))), bound
@@ -434,7 +457,7 @@ def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
     per = _per_output_jobs(fs.n, "fd", fs.on, fs.dc) if options.cost == "per-output" else None
     given = sum(map(len, fs.on)) + sum(map(len, fs.dc))
     cubes, _ = _minimized(fs.n, fs.m, sets_job(fs), per, _signature_start(fs.n, fs.m, lambda: fs.regions),
-                          lambda: 0, given, options)
+                          lambda seconds: 0, given, options)
     return cubes
 
 
@@ -485,11 +508,11 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
                 return None if job.order == first.order else (job, "the rows in the spec's column order")
             second_of = spec_columns
 
-    def bound_of() -> int:
+    def bound_of(seconds: float) -> int:
         if kind == "fd":
-            return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, BOUND_SECONDS)
+            return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, seconds)
         # implicit don't-cares: ON points pairwise separated by the OFF rows (nothing complemented)
-        return off_lower_bound(ons, others, n, per_output, BOUND_SECONDS)
+        return off_lower_bound(ons, others, n, per_output, seconds)
 
     per = _per_output_jobs(n, kind, ons, others) if per_output else None
     cubes, bound = _minimized(n, m, first, per, second_of, bound_of, given, options)
