@@ -320,14 +320,33 @@ def is_small(n: int, m: int, given: int) -> bool:
     return n <= SMALL_INPUTS and (n + m) * given <= SMALL_SIZE
 
 
+def _running_now() -> int | None:
+    """Processes runnable on the machine right now (``/proc/loadavg``'s fourth field, least of three looks 5 ms
+    apart), or ``None`` where that file is missing."""
+    seen = []
+    for k in range(3):
+        try:
+            with open("/proc/loadavg", encoding="ascii") as fh:
+                seen.append(int(fh.read().split()[3].split("/")[0]))
+        except (OSError, ValueError, IndexError):
+            return None
+        if k < 2:
+            time.sleep(0.005)
+    return min(seen)
+
+
 def spare_core() -> bool:
-    """Whether a core is idle for a second start beside the first (and this process): the cores this process may
-    use minus the 1-minute load average, which counts this process, is at least one half. On a machine already busy
-    a second start would only slow the first one down."""
+    """Whether a core is idle for a second start, called just after the first start began: the processes runnable
+    now (this one and the first start among them; this one only waits from here on) are at most the cores this
+    process may use. Where that count is missing, the 1-minute load average stands in for it. On a machine already
+    busy a second start would only slow the first one down."""
     try:
         cores = len(os.sched_getaffinity(0))
     except AttributeError:  # platforms without affinity
         cores = os.cpu_count() or 1
+    running = _running_now()
+    if running is not None:
+        return running <= cores
     try:
         load = os.getloadavg()[0]
     except OSError:
