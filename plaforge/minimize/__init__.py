@@ -9,8 +9,9 @@ heuristic (default)
 exact
     Multi-output prime implicants generated from cubes (:mod:`plaforge.minimize.primes`), a reduced covering
     problem (:mod:`plaforge.minimize.covering`) and a CP-SAT model, seeded with the heuristic's cover; proven
-    minimum rows (then literals) or, at the time limit, the best cover with a lower bound. With ``phase`` one model
-    covers all output phase assignments, so ``optimal`` means minimum over all of them. See
+    minimum rows (then literals) or, at the time limit, the best cover with a lower bound. With ``phase`` the search
+    covers all output phase assignments (one model over the double-phase primes, then branching over the
+    assignments), so ``optimal`` means minimum over all of them and the bound holds for all of them. See
     :mod:`plaforge.minimize.exact`.
 phase
     Output phase assignment: realize some outputs in complement when that lowers the cost; a budgeted search (a
