@@ -7,12 +7,13 @@ import os
 
 import click
 
-from ..batch import build_many, expand_specs, worst_error
+from ..batch import build_many, expand_specs
 from ..core.errors import CheckFailed
 from ..flow import BuildOptions, build
 from ..formats import read_spec
 from ..report import build_report
 from .group import cli
+from .outcomes import echo_outcomes
 
 
 @cli.command("build")
@@ -75,16 +76,8 @@ def build_cmd(spec: tuple[str, ...], jobs: int | None, out: str, k: int, exact: 
                             time_limit=time_limit, effort=effort, budget_rows=budget_rows, budget_luts=budget_luts,
                             hazard_free=hazard_free, gates=styles, max_fanin=int(max_fanin), registered=registered)
         outcomes = build_many(specs, out, opts, changing=changing, jobs=jobs or os.cpu_count() or 1)
-        if as_json:
-            click.echo(json.dumps([o.to_json_obj() for o in outcomes], sort_keys=True))
-        else:
-            for o in outcomes:
-                click.echo(o.line)
-            ok = sum(o.status == 0 for o in outcomes)
-            click.echo(f"{len(outcomes)} specs into {out}/: {ok} built and checked, {len(outcomes) - ok} failed")
-        error = worst_error(outcomes)
-        if error is not None:
-            raise error
+        echo_outcomes(outcomes, as_json, lambda ok, bad: f"{ok + bad} specs into {out}/: {ok} built and checked, "
+                      f"{bad} failed", sort_keys=True)
         return
     spec_path = specs[0]
     table = read_spec(spec_path)

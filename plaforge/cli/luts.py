@@ -49,11 +49,12 @@ def luts_cmd(spec: tuple[str, ...], k: int, out: str | None, as_json: bool, init
     parallel, one line per spec in the order given, then a summary; -o, --c-header and --verilog then name
     directories with one file per spec, named after its design. The exit status is the worst of them.
     """
-    from ..batch import LutsJob, expand_specs, luts_many, luts_spec, worst_error
+    from ..batch import LutsJob, expand_specs, luts_many, luts_spec
     from ..core.errors import PlaforgeError
     from ..core.fileio import refuse_clobbering
     from ..lut import LutOptions, format_listing
     from ..lut.export import padded_network
+    from .outcomes import echo_outcomes
 
     specs = expand_specs(spec)
     several = len(spec) > 1 or any(os.path.isdir(s) for s in spec)
@@ -67,16 +68,7 @@ def luts_cmd(spec: tuple[str, ...], k: int, out: str | None, as_json: bool, init
             raise PlaforgeError("--init-format shapes the listing of one spec; several specs print one line each")
         outcomes = luts_many(specs, out, LutsJob(k, opts, pad), c_header_dir=c_header_path,
                              verilog_dir=verilog_path, jobs=jobs or os.cpu_count() or 1)
-        if as_json:
-            click.echo(json.dumps([o.to_json_obj() for o in outcomes]))
-        else:
-            for o in outcomes:
-                click.echo(o.line)
-            ok = sum(o.status == 0 for o in outcomes)
-            click.echo(f"{len(outcomes)} specs: {ok} mapped, {len(outcomes) - ok} failed")
-        error = worst_error(outcomes)
-        if error is not None:
-            raise error
+        echo_outcomes(outcomes, as_json, lambda ok, bad: f"{ok + bad} specs: {ok} mapped, {bad} failed")
         return
     refuse_clobbering([("SPEC", specs[0])], [("-o", out), ("--c-header", c_header_path), ("--verilog", verilog_path)])
     _table, net, _name = luts_spec(specs[0], LutsJob(k, opts, pad, design), out, c_header_path, verilog_path)

@@ -51,11 +51,12 @@ def minimize_cmd(spec: tuple[str, ...], out: str | None, exact: bool, time_limit
     line per spec in the order given, then a summary; -o then names a directory that gets one DESIGN.pla per spec.
     The exit status is the worst of them (4 > 3 > 2 > 1).
     """
-    from ..batch import MinimizeJob, expand_specs, minimize_many, minimize_spec, worst_error
+    from ..batch import MinimizeJob, expand_specs, minimize_many, minimize_spec
     from ..core.errors import CheckFailed, PlaforgeError
     from ..core.fileio import refuse_clobbering
     from ..device import fit_lines, load_profile
     from ..minimize import MinimizeOptions, format_summary
+    from .outcomes import echo_outcomes
 
     if as_json and (listing or device):
         raise PlaforgeError("--json prints the figures only; leave out --listing and --device with it")
@@ -78,17 +79,8 @@ def minimize_cmd(spec: tuple[str, ...], out: str | None, exact: bool, time_limit
     job = MinimizeJob(options, hazard_free, changing, name, profile)
     if several:
         outcomes = minimize_many(specs, out, job, jobs=jobs or os.cpu_count() or 1)
-        if as_json:
-            click.echo(json.dumps([o.to_json_obj() for o in outcomes]))
-        else:
-            for o in outcomes:
-                click.echo(o.line)
-            ok = sum(o.status == 0 for o in outcomes)
-            into = f" into {out}/" if out is not None else ""
-            click.echo(f"{len(outcomes)} specs{into}: {ok} minimized, {len(outcomes) - ok} failed")
-        error = worst_error(outcomes)
-        if error is not None:
-            raise error
+        into = f" into {out}/" if out is not None else ""
+        echo_outcomes(outcomes, as_json, lambda ok, bad: f"{ok + bad} specs{into}: {ok} minimized, {bad} failed")
         return
     res = minimize_spec(specs[0], job, out)
     cover = res.cover

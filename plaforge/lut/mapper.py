@@ -459,6 +459,14 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
     first = _map_at(sets0, cover, k, opts, prefix, deadline, previous=True)
     assert first is not None  # no node cap
     best: tuple[LutNetwork, OutputSets, Cover] = (first[0], sets0, cover)
+
+    def in_order(order: tuple[int, ...]) -> tuple[Table, Cover, OutputSets]:
+        """The table, cover and output sets with the inputs in ``order`` (the given ones for the identity)."""
+        if order == identity:
+            return table, cover, sets0
+        ctable = permute_table(table, order)
+        return ctable, permute_cover(cover, order), OutputSets(ctable, opts.enum_limit)
+
     at_bound = first[0].count <= bounds["count"] and (opts.objective == "area" or first[0].depth <= bounds["depth"])
     if not at_bound and first[1] <= EXTRA_PASS_WORK and not _past(deadline):
         canon = canonical_order(table) if table.n_inputs <= opts.enum_limit else identity
@@ -468,11 +476,7 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
         for order in dict.fromkeys(orders):
             if _past(deadline):
                 break
-            if order == identity:
-                ctable, ccover, csets = table, cover, sets0
-            else:
-                ctable, ccover = permute_table(table, order), permute_cover(cover, order)
-                csets = OutputSets(ctable, opts.enum_limit)
+            ctable, ccover, csets = in_order(order)
             here: LutNetwork | None = first[0] if order == identity else None
             for kk in _sizes_tried(ctable, k, opts):
                 if order == identity and kk == k:
@@ -500,11 +504,7 @@ def map_luts(table: Table, cover: Cover, k: int = 6, options: LutOptions | None 
         for order in dict.fromkeys((canon, canon[::-1])):
             if _past(deadline):
                 break
-            if order == identity:
-                ctable, ccover, csets = table, cover, sets0
-            else:
-                ctable, ccover = permute_table(table, order), permute_cover(cover, order)
-                csets = OutputSets(ctable, opts.enum_limit)
+            ctable, ccover, csets = in_order(order)
             assert csets.points is not None
             alt = additive_network(ctable, csets.points, _sizes_tried(ctable, k, opts),
                                    lambda n: _finish(n, opts, prefix), _prefix(ctable.input_names, "@a"),
