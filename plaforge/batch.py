@@ -106,13 +106,18 @@ def spec_stem(spec: str, name: str | None = None) -> str:
 
 def _folders(specs: list[str], out: Path, name: str | None) -> list[Path]:
     stems = [spec_stem(s, name) for s in specs]
+    _refuse_same_stem(specs, stems, lambda first, spec, stem: f"{first} and {spec} both build into {out / stem}; "
+                      "build them separately or give one a [design] name")
+    return [out / s for s in stems]
+
+
+def _refuse_same_stem(specs: list[str], stems: list[str], message: Callable[[str, str, str], str]) -> None:
+    """Raise ``PlaforgeError(message(first spec, second spec, stem))`` when two specs share a design stem."""
     seen: dict[str, str] = {}
     for spec, stem in zip(specs, stems):
         if stem in seen:
-            raise PlaforgeError(f"{seen[stem]} and {spec} both build into {out / stem}; build them separately "
-                                "or give one a [design] name")
+            raise PlaforgeError(message(seen[stem], spec, stem))
         seen[stem] = spec
-    return [out / s for s in stems]
 
 
 # --- the pool ------------------------------------------------------------------------------------------------------
@@ -222,12 +227,9 @@ def batch_paths(specs: list[str], dirs: dict[str, tuple[str | None, str]]) -> di
     for opt, (directory, suffix) in dirs.items():
         paths[opt] = [None if directory is None else str(Path(directory) / f"{stem}{suffix}") for stem in stems]
     if any(directory is not None for directory, _ in dirs.values()):
-        seen: dict[str, str] = {}
-        for spec, stem in zip(specs, stems):
-            if stem in seen:
-                raise PlaforgeError(f"{seen[stem]} and {spec} both have the design name {stem!r}, so their files "
-                                    "would have one name; run them separately or give one a [design] name")
-            seen[stem] = spec
+        _refuse_same_stem(specs, stems, lambda first, spec, stem: f"{first} and {spec} both have the design name "
+                          f"{stem!r}, so their files would have one name; run them separately or give one a "
+                          "[design] name")
         refuse_clobbering([("SPEC", s) for s in specs],
                           [(opt, p) for opt, ps in paths.items() for p in ps if p is not None])
         for directory, _ in dirs.values():

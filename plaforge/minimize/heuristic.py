@@ -298,7 +298,7 @@ def _first_answer(starts: Sequence[tuple[Job, Isolated | _Done]], deadline: floa
     """Index and rows of whichever start answers first. The first start is the one that must answer: its errors
     (and its time limit) are raised; a later start that fails is dropped."""
     alive = list(range(len(starts)))
-    while True:
+    while _wait_any([starts[k] for k in alive], deadline):
         for k in list(alive):
             pending = starts[k][1]
             if pending.wait(0):
@@ -308,10 +308,7 @@ def _first_answer(starts: Sequence[tuple[Job, Isolated | _Done]], deadline: floa
                     return k, pending.result(0)  # type: ignore[return-value]
                 except (InternalError, SizeLimit, TimeLimit):
                     alive.remove(k)
-        left = deadline - time.monotonic()
-        if left <= 0:
-            raise TimeLimit(f"the heuristic minimizer did not finish within {limit:g} s{note}", "--time-limit")
-        starts[alive[0]][1].wait(min(POLL, left))
+    raise TimeLimit(f"the heuristic minimizer did not finish within {limit:g} s{note}", "--time-limit")
 
 
 def is_small(n: int, m: int, given: int) -> bool:
