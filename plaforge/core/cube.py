@@ -330,7 +330,36 @@ def cube_list_contains(cubes: Sequence[Cube], cube: Cube) -> bool:
     for c in cubes:
         if c.intersects(cube):
             cof.append(Cube(c.care & ~cube.care, c.value & ~cube.care))
-    return not _complement(cof)
+    return _tautology(cof)
+
+
+def _tautology(cubes: list[Cube]) -> bool:
+    """Whether the union of ``cubes`` holds every point (the unate recursive paradigm, stopping at the first
+    cofactor that is not a tautology).
+
+    A cube without literals decides at once; cubes whose point counts cannot add up to the whole space cannot
+    cover it; an input tested in one polarity only is set to the value that drops every cube testing it (the list
+    is a tautology exactly when the rest is); otherwise both cofactors on the most binate input must be.
+    """
+    while True:
+        if not cubes:
+            return False
+        pos = neg = 0
+        most = 0
+        for c in cubes:
+            if c.care == 0:
+                return True
+            pos |= c.value
+            neg |= c.care & ~c.value
+            most = max(most, c.care.bit_count())
+        if sum(1 << (most - c.care.bit_count()) for c in cubes) < 1 << most:
+            return False
+        unate = pos ^ neg
+        if not unate:
+            break
+        cubes = [c for c in cubes if not c.care & unate]
+    var = _most_binate(cubes)
+    return all(_tautology([x for x in (c.cofactor(var, val) for c in cubes) if x is not None]) for val in (0, 1))
 
 
 class NamedPorts:

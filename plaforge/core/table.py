@@ -563,18 +563,43 @@ def cube_bits(cube: Cube, n: int) -> np.ndarray:
     return arr
 
 
+#: Most words of the (cubes x words) array :func:`cubes_bits` builds at once.
+_BLOCK_WORDS = 1 << 21
+
+
 def cubes_bits(cubes: Sequence[Cube], n: int) -> np.ndarray:
-    """Packed union of the points of ``cubes`` over ``n`` inputs."""
+    """Packed union of the points of ``cubes`` over ``n`` inputs.
+
+    From 6 inputs on, in arrays: single points are set directly; a larger cube is the 64-bit pattern of its
+    literals on inputs 0-5 in every word whose index its literals on inputs 6 and up select, a block of cubes
+    against all words at a time.
+    """
     out = np.zeros(_words(n), dtype=np.uint64)
+    if n < 6:
+        for c in cubes:
+            out |= cube_bits(c, n)
+        return out
     full = (1 << n) - 1
     points = [c.value for c in cubes if c.care == full]
-    if len(points) > 64:  # single points (rows of a listed table) set at once: 16384 of them 0.2 s one by one
-        flags = np.zeros(1 << n, dtype=bool)
-        flags[np.fromiter(points, dtype=np.int64, count=len(points))] = True
-        out |= pack_bool(flags)
+    if points:
+        p = np.fromiter(points, dtype=np.int64, count=len(points))
+        np.bitwise_or.at(out, p >> 6, np.left_shift(np.uint64(1), (p & 63).astype(np.uint64)))
         cubes = [c for c in cubes if c.care != full]
-    for c in cubes:
-        out |= cube_bits(c, n)
+    if not cubes:
+        return out
+    care = np.fromiter((c.care for c in cubes), dtype=np.int64, count=len(cubes))
+    value = np.fromiter((c.value for c in cubes), dtype=np.int64, count=len(cubes))
+    pattern = np.full(len(cubes), np.uint64(0xFFFFFFFFFFFFFFFF), dtype=np.uint64)
+    for i in range(6):
+        lit = np.uint64(_LOW_PATTERNS[i])
+        tested, one = (care >> i & 1).astype(bool), (value >> i & 1).astype(bool)
+        pattern &= np.where(tested, np.where(one, lit, ~lit), np.uint64(0xFFFFFFFFFFFFFFFF))
+    hi_care, hi_value = care >> 6, value >> 6
+    words = np.arange(out.size, dtype=np.int64)
+    step = max(1, _BLOCK_WORDS // out.size)
+    for k in range(0, len(cubes), step):
+        hit = (words[None, :] & hi_care[k:k + step, None]) == hi_value[k:k + step, None]
+        out |= np.bitwise_or.reduce(np.where(hit, pattern[k:k + step, None], np.uint64(0)), axis=0)
     return out
 
 

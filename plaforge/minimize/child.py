@@ -50,8 +50,14 @@ def _address_space(pid: int | str = "self") -> int:
         return 0
 
 
-def _child(conn: Any, fn: Callable[..., Any], args: tuple, memory_mb: int | None) -> None:  # pragma: no cover
+def _child(conn: Any, fn: Callable[..., Any], args: tuple, memory_mb: int | None,
+           nice: int) -> None:  # pragma: no cover
     try:
+        if nice:
+            try:
+                os.nice(nice)
+            except (AttributeError, OSError):  # platforms without it: the same work at normal priority
+                pass
         if memory_mb is not None:
             import resource
 
@@ -83,20 +89,27 @@ class Isolated:
         Names the work in error messages (``"the heuristic minimizer"``).
     memory_mb : int or None
         Megabytes the child may grow beyond what it inherits; ``None``: no limit of its own.
+    nice : int
+        Added to the child's niceness (``os.nice``): a positive value lets it use only what other work leaves idle.
     """
 
-    def __init__(self, fn: Callable[..., Any], args: tuple, what: str, memory_mb: int | None = None) -> None:
+    def __init__(self, fn: Callable[..., Any], args: tuple, what: str, memory_mb: int | None = None,
+                 nice: int = 0) -> None:
         methods = multiprocessing.get_all_start_methods()
         ctx = multiprocessing.get_context("fork" if "fork" in methods else "spawn")
         self.what = what
         self.memory_mb = memory_mb
         self.started = time.monotonic()
         self._recv, send = ctx.Pipe(duplex=False)
-        self._proc = ctx.Process(target=_child, args=(send, fn, args, memory_mb), daemon=True)
+        self._proc = ctx.Process(target=_child, args=(send, fn, args, memory_mb, nice), daemon=True)
         self._proc.start()
         send.close()
         self._base = _address_space(self._proc.pid or 0)
         self._peak = self._base
+
+    def ready(self) -> bool:
+        """Whether the answer (or the child's end) has come, without waiting or sampling memory."""
+        return self._recv.closed or bool(self._recv.poll(0))
 
     def wait(self, timeout: float) -> bool:
         """Wait up to ``timeout`` seconds for the answer; whether it (or the child's end) has come."""

@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import heapq
 import time
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -190,16 +190,17 @@ def _drop_target(pb: CoverProblem, t: int) -> None:
         pb.covers[p] &= bit
 
 
-def reduce_problem(pb: CoverProblem, deadline: float) -> None:
-    """Essentials, target dominance and prime dominance, repeated until nothing changes (or the deadline, checked
-    every few steps: each reduction alone keeps a minimum cover, so stopping anywhere leaves a sound problem)."""
+def reduce_problem(pb: CoverProblem, deadline: float, stop: Callable[[], bool] | None = None) -> None:
+    """Essentials, target dominance and prime dominance, repeated until nothing changes (or the deadline, or
+    ``stop()`` returning true, checked every few steps: each reduction alone keeps a minimum cover, so stopping
+    anywhere leaves a sound problem)."""
     changed = True
     steps = 0
 
     def late() -> bool:
         nonlocal steps
         steps += 1
-        return steps % 64 == 0 and time.monotonic() >= deadline
+        return steps % 64 == 0 and (time.monotonic() >= deadline or (stop is not None and stop()))
 
     while changed and time.monotonic() < deadline:
         changed = False
@@ -303,13 +304,15 @@ def greedy_cover(pb: CoverProblem, start: Sequence[int] = (), outputs: int = -1,
     return picked
 
 
-def incompatible_points_bound(on: Sequence[Cube], f: Sequence[Cube], n: int, deadline: float) -> int:
+def incompatible_points_bound(on: Sequence[Cube], f: Sequence[Cube], n: int, deadline: float,
+                              stop: Callable[[], bool] | None = None) -> int:
     """Size of a greedy set of ON points of one output no two of which one implicant can hold: a lower bound on
     the product terms feeding that output.
 
     Two ON points share an implicant only when their supercube stays inside ``F = ON ∪ DC`` (``f``; a tautology
     check of the cofactor, no complement is built). Candidates are two opposite corners of every ON cube; the search
-    stops at ``deadline`` with what it has (still a bound, at least 1). 0 when ON is empty.
+    stops at ``deadline`` (or once ``stop()`` is true) with what it has (still a bound, at least 1). 0 when ON is
+    empty.
     """
     if not on:
         return 0
@@ -318,25 +321,26 @@ def incompatible_points_bound(on: Sequence[Cube], f: Sequence[Cube], n: int, dea
     fl = list(f)
     kept = [reps[0]]
     for p in reps[1:]:
-        if time.monotonic() > deadline:
+        if time.monotonic() > deadline or (stop is not None and stop()):
             break
         if all(not cube_list_contains(fl, Cube(full & ~(p ^ q), p & ~(p ^ q))) for q in kept):
             kept.append(p)
     return len(kept)
 
 
-def quick_lower_bound(fs: FunctionSets, per_output: bool, seconds: float = 1.0) -> int:
+def quick_lower_bound(fs: FunctionSets, per_output: bool, seconds: float = 1.0,
+                      stop: Callable[[], bool] | None = None) -> int:
     """A lower bound on rows (or, per output, on summed terms) of any cover of ``fs``, without solving.
 
     Per output, :func:`incompatible_points_bound`; for rows their maximum (every output needs that many rows of its
     own), for the per-output cost their sum. Where the primes fit a small budget (``seconds``, 256 MB, 20 000
     primes) also the exact path's bound without its solver: essential primes after the reductions plus targets no two
     of which share a prime (a minimum cover can always be made of primes). Any width; 0 only when no output has an
-    ON point.
+    ON point. ``stop``, when given, ends the work early once it returns true (what was found is still a bound).
     """
     start = time.monotonic()
-    alone = [incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, start + seconds / 2 * (j + 1) / fs.m)
-             for j in range(fs.m)]
+    alone = [incompatible_points_bound(fs.on[j], fs.on[j] + fs.dc[j], fs.n, start + seconds / 2 * (j + 1) / fs.m,
+                                       stop) for j in range(fs.m)]
     deadline = start + seconds
     bound = sum(alone) if per_output else max(alone, default=0)
     groups = [[j] for j in range(fs.m)] if per_output else [list(range(fs.m))]
@@ -346,11 +350,11 @@ def quick_lower_bound(fs: FunctionSets, per_output: bool, seconds: float = 1.0) 
             sub_on = [fs.on[j] for j in group]
             if not any(sub_on):
                 continue
-            budget = Budget(deadline, 256 << 20)
+            budget = Budget(deadline, 256 << 20, stop)
             primes = multi_output_primes([fs.on[j] + fs.dc[j] for j in group], sub_on, fs.n, budget, 20_000)
             pb = build_problem(primes, sub_on, fs.n, budget)
             before = independent_targets_bound(pb)
-            reduce_problem(pb, deadline)
+            reduce_problem(pb, deadline, stop)
             total += max(before, len(pb.chosen) + independent_targets_bound(pb))
     except LimitReached:
         return bound

@@ -67,6 +67,8 @@ from collections.abc import Sequence
 from dataclasses import dataclass, replace
 from types import MappingProxyType
 
+import numpy as np
+
 from ..core.cube import Cover, Cube, lists_intersect, merge_identical
 from ..core.errors import InternalError, SizeLimit, TimeLimit
 from ..core.sets import GivenSets, given_sets
@@ -85,8 +87,10 @@ SIGNATURE_LIMIT = 16
 #: Above this many inputs the columns are sorted by a key from the rows (the cost of wide tables depends on the
 #: order); at or below it the spec's own order is kept, which the starts were tuned on.
 ORDER_FROM = 16
-#: ``normal`` effort: after the first answer, other starts may run this share of its time more ...
+#: ``normal`` effort: after the first answer, other starts may run this share of its time more; on a large table
+#: only of the time beyond ``EXTRA_AFTER`` seconds, less the time spent preparing the starts ...
 EXTRA_SHARE = 0.15
+EXTRA_AFTER = 1.0
 #: ... or, on a small table (:func:`is_small`), this many seconds, descents included.
 EXTRA_FLOOR = 1.0
 #: A small table has at most this many inputs ...
@@ -97,11 +101,15 @@ SMALL_SIZE = 16384
 SPARE = 0.5
 #: Seconds between two looks at the starts while waiting for the first answer.
 POLL = 0.02
+#: Niceness added to the second start on a large table: it runs on what the first start and the lower bound leave
+#: idle, so it never slows them down.
+SECOND_NICE = 19
 
-#: Seconds the lower bound may take (computed while the first start runs) ...
+#: Seconds the lower bound may take (computed while the starts run) ...
 BOUND_SECONDS = 0.5
-#: ... except on a large table whose first answer came before that: this share of the answer's time, at least
-#: ``BOUND_FLOOR`` seconds.
+#: ... except on a large table whose first answer comes before that: the bound then stops once it has had this
+#: share of the answer's time, at least ``BOUND_FLOOR`` seconds (with the starts in child processes it has had it
+#: by the time the answer comes, so it adds nothing to the wall time).
 BOUND_SHARE = 0.2
 BOUND_FLOOR = 0.05
 #: Default time limit: at least ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds.
@@ -161,44 +169,68 @@ def decode_row(inpart: Sequence[int], outpart: Sequence[int], order: Sequence[in
     return Cube(care, value, outputs)
 
 
+def bit_matrix(masks: Sequence[int], width: int) -> np.ndarray:
+    """``(len(masks), width)`` booleans: bit ``i`` of each (non-negative) mask, any width."""
+    if width <= 62:
+        arr = np.fromiter(masks, dtype=np.int64, count=len(masks))
+        return (arr[:, None] >> np.arange(width, dtype=np.int64)) & 1 == 1
+    nbytes = max(1, (width + 7) // 8)
+    raw = np.frombuffer(b"".join(x.to_bytes(nbytes, "little") for x in masks), dtype=np.uint8)
+    bits = np.unpackbits(raw.reshape(len(masks), nbytes), axis=1, bitorder="little")
+    return bits[:, :width].astype(bool)
+
+
 def column_order(n: int, cubes: Sequence[Cube]) -> tuple[int, ...]:
     """Inputs tested by more cubes first, then inputs more often tested at 1, then spec order."""
-    cares, ones = [0] * n, [0] * n
-    for c in cubes:
-        for i in range(n):
-            if c.care >> i & 1:
-                cares[i] += 1
-                ones[i] += c.value >> i & 1
-    return tuple(sorted(range(n), key=lambda i: (-cares[i], -ones[i], i)))
+    care = bit_matrix([c.care for c in cubes], n)
+    value = bit_matrix([c.value for c in cubes], n)
+    return _sorted_columns(care, value)
+
+
+def _sorted_columns(care: np.ndarray, value: np.ndarray) -> tuple[int, ...]:
+    cares, ones = care.sum(axis=0).tolist(), value.sum(axis=0).tolist()
+    return tuple(sorted(range(care.shape[1]), key=lambda i: (-cares[i], -ones[i], i)))
 
 
 def _job(n: int, m: int, kind: str, marked: Sequence[tuple[Sequence[Cube], int]], spec_order: bool = False
          ) -> Job:
     """A job from cube lists each with the mark its outputs get (1 ON, 2 DC, 0 OFF); identical input parts merged
-    into one row, a don't-care mark winning over ON. Columns sorted above ``ORDER_FROM`` inputs unless
-    ``spec_order``."""
-    fill = 2 if kind == "fr" else 0
-    parts: dict[tuple[int, int], list[int]] = {}
+    into one row, a later list's mark winning except that ON never overrides a don't-care under F|D. Columns sorted
+    above ``ORDER_FROM`` inputs unless ``spec_order``. Built in arrays (one pass over the cubes in Python)."""
+    index: dict[tuple[int, int], int] = {}
+    groups = []
     for cubes, mark in marked:
-        for c in cubes:
-            entry = parts.setdefault((c.care, c.value), [fill] * m)
-            outs = c.outputs
-            while outs:
-                low = outs & -outs
-                j = low.bit_length() - 1
-                if not (mark == 1 and entry[j] == 2 and kind == "fd"):
-                    entry[j] = mark
-                outs ^= low
-    sort = n > ORDER_FROM and not spec_order
-    order = column_order(n, [Cube(care, value) for care, value in parts]) if sort else tuple(range(n))
-    rows = frozenset((encode_cube(Cube(care, value), n, order), tuple(e)) for (care, value), e in parts.items())
-    return Job(n, m, kind, rows, order)
+        where = np.fromiter((index.setdefault((c.care, c.value), len(index)) for c in cubes), dtype=np.int64,
+                            count=len(cubes))
+        groups.append((where, bit_matrix([c.outputs for c in cubes], m), mark))
+    parts = list(index)
+    care = bit_matrix([cv[0] for cv in parts], n)
+    value = bit_matrix([cv[1] for cv in parts], n)
+    entry = np.full((len(parts), m), 2 if kind == "fr" else 0, dtype=np.int8)
+    for where, outs, mark in groups:
+        if not where.size:
+            continue
+        hit = np.zeros((len(parts), m), dtype=bool)
+        order = np.argsort(where, kind="stable")
+        first = np.flatnonzero(np.r_[True, np.diff(where[order]) != 0])
+        hit[where[order][first]] = np.logical_or.reduceat(outs[order], first, axis=0)
+        if mark == 1 and kind == "fd":
+            hit &= entry != 2
+        entry[hit] = mark
+    order_cols = _sorted_columns(care, value) if n > ORDER_FROM and not spec_order else tuple(range(n))
+    inpart = np.where(care, value.astype(np.int8) + 1, 3).astype(np.int8)[:, list(order_cols)]
+    rows = frozenset(zip(map(tuple, inpart.tolist()), map(tuple, entry.tolist())))
+    return Job(n, m, kind, rows, order_cols)
 
 
 def given_job(gs: GivenSets, spec_order: bool = False) -> Job:
     """Start A for sets as given: ON rows with DC rows (F|D) or with OFF rows (F|R)."""
     other = 2 if gs.kind == "fd" else 0
-    return _job(gs.n, gs.m, gs.kind, [(c, 1) for c in gs.on] + [(c, other) for c in gs.other], spec_order)
+    return _job(gs.n, gs.m, gs.kind, [(_flat(gs.on), 1), (_flat(gs.other), other)], spec_order)
+
+
+def _flat(lists: Sequence[Sequence[Cube]]) -> list[Cube]:
+    return [c for cubes in lists for c in cubes]
 
 
 def sets_job(fs: FunctionSets) -> Job:
@@ -259,10 +291,11 @@ def _per_output(jobs: Sequence[Job], repeat: int) -> list[list[Row]]:
     return [_descend(job, None, repeat) for job in jobs]
 
 
-def _call(fn: object, args: tuple, options: MinimizeOptions) -> Isolated | object:
-    """Start ``fn(*args)`` in a child process, or run it here when ``options.isolate`` is off."""
+def _call(fn: object, args: tuple, options: MinimizeOptions, nice: int = 0) -> Isolated | object:
+    """Start ``fn(*args)`` in a child process (``nice`` added to its niceness), or run it here when
+    ``options.isolate`` is off."""
     if options.isolate:
-        return Isolated(fn, args, "the heuristic minimizer", options.memory_limit)  # type: ignore[arg-type]
+        return Isolated(fn, args, "the heuristic minimizer", options.memory_limit, nice)  # type: ignore[arg-type]
     return _Done(fn(*args))  # type: ignore[operator]
 
 
@@ -273,6 +306,9 @@ class _Done:
         self.value = value
 
     def wait(self, timeout: float) -> bool:
+        return True
+
+    def ready(self) -> bool:
         return True
 
     def result(self, timeout: float, limit_note: str = "") -> object:
@@ -317,16 +353,18 @@ def is_small(n: int, m: int, given: int) -> bool:
     return n <= SMALL_INPUTS and (n + m) * given <= SMALL_SIZE
 
 
-def _running_now() -> int | None:
-    """Processes runnable on the machine right now (``/proc/loadavg``'s fourth field, least of three looks 5 ms
-    apart), or ``None`` where that file is missing."""
-    seen = []
+def _running_now(enough: int) -> int | None:
+    """Processes runnable on the machine right now (``/proc/loadavg``'s fourth field, least of up to three looks
+    5 ms apart, the looks ending once one is at most ``enough``), or ``None`` where that file is missing."""
+    seen: list[int] = []
     for k in range(3):
         try:
             with open("/proc/loadavg", encoding="ascii") as fh:
                 seen.append(int(fh.read().split()[3].split("/")[0]))
         except (OSError, ValueError, IndexError):
             return None
+        if seen[-1] <= enough:
+            break
         if k < 2:
             time.sleep(0.005)
     return min(seen)
@@ -341,7 +379,7 @@ def spare_core() -> bool:
         cores = len(os.sched_getaffinity(0))
     except AttributeError:  # platforms without affinity
         cores = os.cpu_count() or 1
-    running = _running_now()
+    running = _running_now(cores)
     if running is not None:
         return running <= cores
     try:
@@ -362,16 +400,37 @@ def _wait_any(starts: Sequence[tuple[Job, Isolated | _Done]], until: float) -> b
         starts[0][1].wait(min(POLL, left))
 
 
-def extra_window(t_first: float, small: bool) -> float:
-    """Seconds the ``normal`` effort gives other starts after the first answer, which took ``t_first``."""
-    return max(EXTRA_FLOOR, EXTRA_SHARE * t_first) if small else EXTRA_SHARE * t_first
+def _bound_stop(starts: Sequence[tuple[Job, Isolated | _Done]], t0: float) -> object:
+    """``stop()`` for a lower bound computed while the starts (begun at ``t0``) run on a large table: true once a
+    start has answered and the bound has had :data:`BOUND_SHARE` of that answer's time (at least
+    :data:`BOUND_FLOOR` seconds)."""
+    began = time.monotonic()
+    answered: list[float] = []
+
+    def stop() -> bool:
+        if not answered:
+            if not any(pending.ready() for _, pending in starts):
+                return False
+            answered.append(time.monotonic())
+        return time.monotonic() - began >= max(BOUND_FLOOR, BOUND_SHARE * (answered[0] - t0))
+    return stop
+
+
+def extra_window(t_first: float, small: bool, before: float = 0.0) -> float:
+    """Seconds the ``normal`` effort gives other starts after the first answer, which took ``t_first`` after
+    ``before`` seconds of preparing the starts. On a large table preparing and window together take at most
+    :data:`EXTRA_SHARE` of the time beyond :data:`EXTRA_AFTER` seconds: a first answer within about a second buys
+    no wait (the other start still runs beside it and counts when it answers first)."""
+    if small:
+        return max(EXTRA_FLOOR, EXTRA_SHARE * t_first)
+    return max(0.0, EXTRA_SHARE * (t_first - EXTRA_AFTER) - before)
 
 
 def _run_shared(job: Job, second_of: object, bound_of: object, options: MinimizeOptions, limit: float,
-                note: str, progress: Progress) -> tuple[Job, list[Row], int]:
+                note: str, progress: Progress, began: float) -> tuple[Job, list[Row], int]:
     """Start A (and a second start, ``second_of()`` built while A runs), then descents, as ``options.effort``
     allows (module docs); the best result with the job it answers (their column orders differ) and the lower bound
-    ``bound_of(seconds)``, computed here while the starts run."""
+    ``bound_of(seconds, stop)``, computed here while the starts run."""
     t0 = time.monotonic()
     deadline = t0 + limit
     effort = options.effort
@@ -382,23 +441,19 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
         wanted = effort == "high" or (effort == "normal" and (small or spare_core()))
         second = second_of() if wanted else None  # type: ignore[operator]
         if second is not None:
-            starts.append((second[0], _call(_descend, (second[0], None, 0), options)))
+            # on a large table the second start yields to the first and to the bound computed here meanwhile
+            nice = 0 if small or effort == "high" else SECOND_NICE
+            starts.append((second[0], _call(_descend, (second[0], None, 0), options, nice)))
         progress.stage("start A: the rows as given" + (f", start B: {second[1]}" if second else ""))
-        bound = None
-        if not small:
-            # a large table whose first answer comes quickly should not wait for a full bound: the bound then
-            # gets a share of that answer's time (a greedy bound stopped early is still a bound)
-            early = _wait_any(starts, min(deadline, time.monotonic() + BOUND_SECONDS))
-            if early:
-                bound = bound_of(max(BOUND_FLOOR, BOUND_SHARE * (time.monotonic() - t0)))  # type: ignore[operator]
-        if bound is None:
-            bound = bound_of(BOUND_SECONDS)  # type: ignore[operator]
+        # the bound is computed while the starts run; on a large table whose first answer comes quickly it stops
+        # early (a greedy bound stopped early is still a bound) instead of delaying that answer
+        bound = bound_of(BOUND_SECONDS, None if small else _bound_stop(starts, t0))  # type: ignore[operator]
         first, rows = _first_answer(starts, deadline, limit, note)
         results: list[tuple[Job, list[Row]]] = [(starts[first][0], rows)]
         if effort == "fast" or len(rows) <= bound:
             return starts[first][0], rows, bound
         t_a = time.monotonic() - t0
-        window = extra_window(t_a, small)
+        window = extra_window(t_a, small, max(0.0, t0 - began))
         extra_end = deadline if effort == "high" else min(deadline, time.monotonic() + window)
         progress.update(rows_a=len(rows))
         for k, (j, pending) in enumerate(starts):
@@ -439,7 +494,7 @@ def _decode(job: Job, rows: Sequence[Row], output: int | None = None) -> list[Cu
 
 
 def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, second_of: object,
-               bound_of: object, given: int, options: MinimizeOptions) -> tuple[list[Cube], int]:
+               bound_of: object, given: int, options: MinimizeOptions, began: float) -> tuple[list[Cube], int]:
     """The best cover found and the lower bound (``bound_of()``, computed while the first start runs);
     ``second_of()`` gives the second start's job and its name, or ``None``."""
     limit, note = time_limit(options, n, m, given)
@@ -448,11 +503,11 @@ def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, second_
         if per_output is not None:
             repeat = 0 if options.effort == "fast" else 1 if options.effort == "normal" else 1 << 20
             run = _call(_per_output, (per_output, repeat), options)
-            bound = bound_of(BOUND_SECONDS)  # type: ignore[operator]
+            bound = bound_of(BOUND_SECONDS, None)  # type: ignore[operator]
             res = run.result(limit, note)  # type: ignore[union-attr]
             return sort_cubes(merge_identical(c for k, (job, rows) in enumerate(zip(per_output, res))
                                               for c in _decode(job, rows, k))), bound
-        job, rows, bound = _run_shared(first, second_of, bound_of, options, limit, note, progress)
+        job, rows, bound = _run_shared(first, second_of, bound_of, options, limit, note, progress, began)
     return sort_cubes(merge_identical(_decode(job, rows))), bound
 
 
@@ -469,11 +524,12 @@ def heuristic_cubes(fs: FunctionSets, options: MinimizeOptions) -> list[Cube]:
     """Minimized cubes for separated sets ``fs`` under ``options`` (cost, effort; ``time_limit`` as given, never
     scaled: callers pass their share of a deadline), identical terms merged, in
     :func:`plaforge.minimize.result.sort_cubes` order (not yet verified)."""
+    began = time.monotonic()
     options = replace(options, scale_time_limit=False)
     per = _per_output_jobs(fs.n, "fd", fs.on, fs.dc) if options.cost == "per-output" else None
     given = sum(map(len, fs.on)) + sum(map(len, fs.dc))
     cubes, _ = _minimized(fs.n, fs.m, sets_job(fs), per, _signature_start(fs.n, fs.m, lambda: fs.regions),
-                          lambda seconds: 0, given, options)
+                          lambda seconds, stop: 0, given, options, began)
     return cubes
 
 
@@ -492,6 +548,7 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
     and :func:`plaforge.minimize.off_bound.off_lower_bound` where they are implicit (``fr``: ON points pairwise
     separated by the OFF rows); ``optimal`` is true only when the cover meets it.
     """
+    began = time.monotonic()
     per_output = options.cost == "per-output"
     gs = given_sets(table, inverted)
     if gs is None:
@@ -524,13 +581,13 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
                 return None if job.order == first.order else (job, "the rows in the spec's column order")
             second_of = spec_columns
 
-    def bound_of(seconds: float) -> int:
+    def bound_of(seconds: float, stop: object) -> int:
         if kind == "fd":
-            return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, seconds)
+            return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, seconds, stop)  # type: ignore[arg-type]
         # implicit don't-cares: ON points pairwise separated by the OFF rows (nothing complemented)
-        return off_lower_bound(ons, others, n, per_output, seconds)
+        return off_lower_bound(ons, others, n, per_output, seconds, stop)  # type: ignore[arg-type]
 
     per = _per_output_jobs(n, kind, ons, others) if per_output else None
-    cubes, bound = _minimized(n, m, first, per, second_of, bound_of, given, options)
+    cubes, bound = _minimized(n, m, first, per, second_of, bound_of, given, options, began)
     count = term_count(cubes, per_output)
     return checked_cover(table, cubes, options, inverted, "heuristic", count <= bound, bound, given=gs)

@@ -13,7 +13,7 @@ don't-cares (or ON ∪ DC) as cubes.
 from __future__ import annotations
 
 import time
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 
 import numpy as np
 
@@ -36,9 +36,15 @@ def _separated_by_off(p: int, kept: np.ndarray, off_care: np.ndarray, off_value:
     return bool((clash == 0).any(axis=1).all())
 
 
-def off_incompatible_bound(on: Sequence[Cube], off: Sequence[Cube], n: int, deadline: float) -> int:
+def off_incompatible_bound(on: Sequence[Cube], off: Sequence[Cube], n: int, deadline: float,
+                           stop: Callable[[], bool] | None = None) -> int:
     """Size of a greedy set of ON points of one output (given by ON cubes ``on`` and OFF cubes ``off``) no two of
-    which one product term can hold; 0 when ON is empty, at least 1 otherwise."""
+    which one product term can hold; 0 when ON is empty, at least 1 otherwise. Stops at ``deadline`` or once
+    ``stop()`` is true."""
+
+    def late() -> bool:
+        return time.monotonic() > deadline or (stop is not None and stop())
+
     if not on:
         return 0
     full = (1 << n) - 1
@@ -51,7 +57,7 @@ def off_incompatible_bound(on: Sequence[Cube], off: Sequence[Cube], n: int, dead
         kept = [reps[0]]
         arr = np.array(kept, dtype=np.uint64)
         for p in reps[1:]:
-            if time.monotonic() > deadline:
+            if late():
                 break
             if _separated_by_off(p, arr, off_care, off_value, full):
                 kept.append(p)
@@ -59,7 +65,7 @@ def off_incompatible_bound(on: Sequence[Cube], off: Sequence[Cube], n: int, dead
         return len(kept)
     kept_w = [reps[0]]
     for p in reps[1:]:
-        if time.monotonic() > deadline:
+        if late():
             break
         ok = True
         for q in kept_w:
@@ -74,9 +80,10 @@ def off_incompatible_bound(on: Sequence[Cube], off: Sequence[Cube], n: int, dead
 
 
 def off_lower_bound(ons: Sequence[Sequence[Cube]], offs: Sequence[Sequence[Cube]], n: int, per_output: bool,
-                    seconds: float) -> int:
+                    seconds: float, stop: Callable[[], bool] | None = None) -> int:
     """A lower bound on rows (the largest per-output bound: every output needs that many terms of its own) or,
-    under the per-output cost, on the summed terms, within about ``seconds``."""
+    under the per-output cost, on the summed terms, within about ``seconds`` (or until ``stop()`` is true)."""
     start, m = time.monotonic(), len(ons)
-    each = [off_incompatible_bound(ons[j], offs[j], n, start + seconds * (j + 1) / max(m, 1)) for j in range(m)]
+    each = [off_incompatible_bound(ons[j], offs[j], n, start + seconds * (j + 1) / max(m, 1), stop)
+            for j in range(m)]
     return sum(each) if per_output else max(each, default=0)

@@ -35,7 +35,7 @@ memory before allocating (:class:`~plaforge.core.errors.SizeLimit` naming ``--me
 from __future__ import annotations
 
 import time
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -59,13 +59,15 @@ def popcount(a: np.ndarray) -> np.ndarray:
 
 @dataclass(frozen=True)
 class Budget:
-    """Deadline (``time.monotonic()`` seconds) and memory (bytes) a step may use; ``check`` raises past them."""
+    """Deadline (``time.monotonic()`` seconds) and memory (bytes) a step may use; ``check`` raises past them.
+    ``stop``, when given, ends the step early as the deadline would once it returns true."""
 
     deadline: float
     memory: int
+    stop: Callable[[], bool] | None = None
 
     def time(self, what: str) -> None:
-        if time.monotonic() > self.deadline:
+        if time.monotonic() > self.deadline or (self.stop is not None and self.stop()):
             raise TimeLimit(f"the exact path ran out of time {what}", "--time-limit")
 
     def size(self, nbytes: float, what: str) -> None:

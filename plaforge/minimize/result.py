@@ -13,8 +13,8 @@ import numpy as np
 
 from ..core.cube import Cover, Cube, cube_list_contains, merge_identical
 from ..core.errors import InternalError
-from ..core.sets import GivenSets, cubes_points
-from ..core.table import DEFAULT_ENUM_LIMIT, FunctionSets, Table
+from ..core.sets import GivenSets
+from ..core.table import DEFAULT_ENUM_LIMIT, FunctionSets, Table, cubes_bits
 from ..verify.equivalence import check_cover
 from .options import MinimizeOptions
 
@@ -66,19 +66,36 @@ def verify_cover(table: Table, cover: Cover, what: str) -> None:
 
 
 def _given_points_check(gs: GivenSets, cubes: Sequence[Cube]) -> str | None:
-    """Bit-parallel check of a cover against sets as given, over all 2**n points."""
+    """Bit-parallel check of a cover against sets as given, over all 2**n points (packed 64 to a word)."""
+    n = gs.n
+    feeding: list[list[Cube]] = [[] for _ in range(gs.m)]
+    for c in cubes:
+        outs = c.outputs
+        while outs:
+            low = outs & -outs
+            feeding[low.bit_length() - 1].append(c)
+            outs ^= low
+    valid = np.full(max(1, (1 << n) >> 6), np.uint64(0xFFFFFFFFFFFFFFFF), dtype=np.uint64)
+    if n < 6:
+        valid[0] = np.uint64((1 << (1 << n)) - 1)
     for j in range(gs.m):
-        on, other = cubes_points(gs.on[j], gs.n), cubes_points(gs.other[j], gs.n)
-        got = cubes_points([c for c in cubes if c.outputs >> j & 1], gs.n)
-        dc = other if gs.kind == "fd" else ~(on | other)
-        missed = np.flatnonzero(on & ~dc & ~got)
-        if missed.size:
-            return f"output {j}: ON point {int(missed[0])} is not covered"
-        off = ~(on | dc) if gs.kind == "fd" else other
-        wrong = np.flatnonzero(got & off)
-        if wrong.size:
-            return f"output {j}: the cover reaches OFF point {int(wrong[0])}"
+        on, other, got = cubes_bits(gs.on[j], n), cubes_bits(gs.other[j], n), cubes_bits(feeding[j], n)
+        dc = other if gs.kind == "fd" else valid & ~(on | other)
+        missed = on & ~dc & ~got
+        if missed.any():
+            return f"output {j}: ON point {_first_point(missed)} is not covered"
+        off = valid & ~(on | dc) if gs.kind == "fd" else other
+        wrong = got & off
+        if wrong.any():
+            return f"output {j}: the cover reaches OFF point {_first_point(wrong)}"
     return None
+
+
+def _first_point(bits: np.ndarray) -> int:
+    """The lowest point of a non-empty packed set."""
+    w = int(np.flatnonzero(bits)[0])
+    word = int(bits[w])
+    return 64 * w + (word & -word).bit_length() - 1
 
 
 def _given_cube_check(gs: GivenSets, cubes: Sequence[Cube]) -> str | None:
