@@ -31,24 +31,41 @@ above ``ORDER_FROM`` inputs the spec's order runs beside the sorted one when not
 Effort
 ------
 The minimizer is a local descent, so where it starts matters. ``fast``: one run from the rows above (start A).
-``normal``: A in one child process and, at once, a second start in a second child (the machine's other core): up to
-:data:`SIGNATURE_LIMIT` inputs and 64 outputs start B, the regions of constant output signature written as cubes,
-each carrying the whole signature; above ``ORDER_FROM`` inputs, when ON rows overlap don't-care rows, the other feed
-of those rows (as given or cut, see above), and otherwise the same rows in the spec's column order. The first of
-the two to answer is "the first answer". On a large table the second start runs only when a core is idle
-(:func:`spare_core`: on a busy machine it would slow the first one down instead). Everything else is dropped when the first answer already meets the lower
-bound. Otherwise the other start is given :func:`extra_window` more: :data:`EXTRA_SHARE` of the first answer's time,
-or :data:`EXTRA_FLOOR` seconds on a small table (:func:`is_small`, decided by size so that results do not depend on
-the machine's load); only on a small one (where it can finish) one more descent runs from each result, fed back with the same don't-care or OFF rows. Unfinished work is
-stopped and the best finished result kept (fewer rows, then fewer literals). So on a table that takes the minimizer
-more than a moment, ``normal`` costs at most 15 % more wall time than ``fast`` plus the check. ``high``: all of it
-with descents repeated while they help, bounded only by the time limit.
+``normal``: A in one child process and a second start in a second child: up to :data:`SIGNATURE_LIMIT` inputs and
+64 outputs start B, the regions of constant output signature written as cubes, each carrying the whole signature;
+above ``ORDER_FROM`` inputs, when ON rows overlap don't-care rows, the other feed of those rows (as given or cut, see
+above), and otherwise the same rows in the spec's column order. The first of the two to answer is "the first
+answer"; everything else is dropped when it already meets the lower bound. Unfinished work is stopped and the best
+finished result kept (fewer rows, then fewer literals).
+
+* On a small table (:func:`is_small`, decided by size so that results do not depend on the machine's load) both
+  starts begin at once, and the other start and one more descent from each result (fed back with the same
+  don't-care or OFF rows) get :data:`EXTRA_FLOOR` seconds after the first answer.
+* On a large table B begins only once A has run :data:`SECOND_AFTER` seconds without answering, only when a core is
+  idle (:func:`spare_core`), and at low priority (:data:`SECOND_NICE`). On this kind of machine any parallel work
+  slows the minimizer down (measured: about a tenth for a second minimizer, a fifth for the bound, through the
+  shared memory system), so a quick A runs alone and B is kept for the tables where A is slow, which is where a
+  different start can gain most (a factor up to 80 in time on wide tables). After the first answer B gets
+  :func:`extra_window` more, :data:`EXTRA_SHARE` of that answer's time beyond :data:`EXTRA_AFTER` seconds; no
+  descent runs. So ``normal`` costs about ``fast`` below a second and at most about 20 % more above it, plus the
+  check.
+
+``high``: both starts at once on every table, with descents repeated while they help, bounded only by the time
+limit.
 
 Time limit
 ----------
 Unless ``scale_time_limit`` is cleared (the CLI clears it when ``--time-limit`` is given), the limit is the larger
 of ``time_limit`` and ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds (rows: the cubes given), and a
 ``TimeLimit`` message says which rule set it.
+
+Lower bound
+-----------
+Computed in this process while the starts run (:func:`plaforge.minimize.covering.quick_lower_bound`, or
+:func:`plaforge.minimize.off_bound.off_lower_bound` for ON/OFF tables), for at most :data:`BOUND_SECONDS` on a small
+table. On a large one it gets :data:`BOUND_EARLY` seconds beside A, stopping sooner once a start has answered and
+it has had :data:`BOUND_SHARE` of that answer's time (so it does not delay the answer), and within B's window
+after the first answer (A done) up to :data:`BOUND_SECONDS` more. A greedy bound stopped early is still a bound, only a weaker one.
 
 Isolation and trust
 -------------------
@@ -89,8 +106,10 @@ SIGNATURE_LIMIT = 16
 ORDER_FROM = 16
 #: ``normal`` effort: after the first answer, other starts may run this share of its time more; on a large table
 #: only of the time beyond ``EXTRA_AFTER`` seconds, less the time spent preparing the starts ...
-EXTRA_SHARE = 0.15
+EXTRA_SHARE = 0.05
 EXTRA_AFTER = 1.0
+#: On a large table the second start begins only once the first has run this many seconds without answering.
+SECOND_AFTER = 1.0
 #: ... or, on a small table (:func:`is_small`), this many seconds, descents included.
 EXTRA_FLOOR = 1.0
 #: A small table has at most this many inputs ...
@@ -107,6 +126,8 @@ SECOND_NICE = 19
 
 #: Seconds the lower bound may take (computed while the starts run) ...
 BOUND_SECONDS = 0.5
+#: ... on a large table, beside start A ...
+BOUND_EARLY = 0.1
 #: ... except on a large table whose first answer comes before that: the bound then stops once it has had this
 #: share of the answer's time, at least ``BOUND_FLOOR`` seconds (with the starts in child processes it has had it
 #: by the time the answer comes, so it adds nothing to the wall time).
@@ -438,16 +459,23 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
     starts: list[tuple[Job, Isolated | _Done]] = [(job, _call(_descend, (job, None, 0), options))]
     try:
         small = is_small(job.n, job.m, len(job.rows))
-        wanted = effort == "high" or (effort == "normal" and (small or spare_core()))
-        second = second_of() if wanted else None  # type: ignore[operator]
+        # a small table (or ``high``) gets both starts and a full bound at once; a large one a short bound beside
+        # start A (parallel work slows A down on a shared memory system) and a second start only once A has run
+        # SECOND_AFTER seconds without answering
+        at_once = effort == "high" or (effort == "normal" and small)
+        second = second_of() if at_once else None  # type: ignore[operator]
         if second is not None:
-            # on a large table the second start yields to the first and to the bound computed here meanwhile
-            nice = 0 if small or effort == "high" else SECOND_NICE
-            starts.append((second[0], _call(_descend, (second[0], None, 0), options, nice)))
+            starts.append((second[0], _call(_descend, (second[0], None, 0), options)))
         progress.stage("start A: the rows as given" + (f", start B: {second[1]}" if second else ""))
-        # the bound is computed while the starts run; on a large table whose first answer comes quickly it stops
-        # early (a greedy bound stopped early is still a bound) instead of delaying that answer
-        bound = bound_of(BOUND_SECONDS, None if small else _bound_stop(starts, t0))  # type: ignore[operator]
+        if at_once or small:
+            bound = bound_of(BOUND_SECONDS, None)  # type: ignore[operator]
+        else:
+            bound = bound_of(BOUND_EARLY, _bound_stop(starts, t0))  # type: ignore[operator]
+            if effort == "normal" and not _wait_any(starts, min(deadline, t0 + SECOND_AFTER)) and spare_core():
+                second = second_of()  # type: ignore[operator]
+                if second is not None:
+                    starts.append((second[0], _call(_descend, (second[0], None, 0), options, SECOND_NICE)))
+                    progress.stage(f"start A has run {SECOND_AFTER:g} s: start B, {second[1]}")
         first, rows = _first_answer(starts, deadline, limit, note)
         results: list[tuple[Job, list[Row]]] = [(starts[first][0], rows)]
         if effort == "fast" or len(rows) <= bound:
@@ -456,8 +484,12 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
         window = extra_window(t_a, small, max(0.0, t0 - began))
         extra_end = deadline if effort == "high" else min(deadline, time.monotonic() + window)
         progress.update(rows_a=len(rows))
-        for k, (j, pending) in enumerate(starts):
-            if k != first and pending.wait(extra_end - time.monotonic()):
+        others = [(j, pending) for k, (j, pending) in enumerate(starts) if k != first]
+        if not (at_once or small) and others and window > 0:
+            # the other start's window: the bound may use this core meanwhile (A is done, nothing to slow down)
+            bound = max(bound, bound_of(min(BOUND_SECONDS, window), None))  # type: ignore[operator]
+        for j, pending in others:
+            if pending.wait(extra_end - time.monotonic()):
                 try:
                     results.append((j, pending.result(0)))  # type: ignore[arg-type]
                     progress.update(rows_b=len(results[-1][1]))
