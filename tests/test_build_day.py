@@ -46,7 +46,7 @@ def test_design_name_from_toml_names_files_class_and_module(built):
     assert obj["name"] == "kestrel8_decoder"  # samples/memory_map.toml: [design] name
     assert (out / "kestrel8_decoder.pla").is_file() and (out / "kestrel8_decoder_lut.v").is_file()
     assert "class Kestrel8Decoder(wiring.Component)" in (out / "kestrel8_decoder_sop.py").read_text()
-    assert re.search(r"^module kestrel8_decoder \($", (out / "kestrel8_decoder.v").read_text(), re.M)
+    assert re.search(r"^module kestrel8_decoder \($", (out / "kestrel8_decoder.v").read_text(), re.MULTILINE)
 
 
 def test_name_option_wins_and_is_sanitized(tmp_path):
@@ -179,7 +179,7 @@ def test_readable_verilog_compiles_without_warnings_ports_in_spec_order(built, t
     text = path.read_text()
     assert "`timescale 1ns / 1ps" in text and "SHA-256" in text and "Caution" in text
     assert "wait -> wait_" in text  # a Verilog keyword renamed, and said so in the header
-    ports = re.findall(r"^\s+(?:input|output)\s+wire\s+(?:\[\d+:0\]\s+)?(\w+)", text, re.M)
+    ports = re.findall(r"^\s+(?:input|output)\s+wire\s+(?:\[\d+:0\]\s+)?(\w+)", text, re.MULTILINE)
     t = read_spec(MEMORY_MAP)
     assert ports == [b.name if b.name != "wait" else "wait_" for b in t.input_buses + t.output_buses]
     assert "\\$" not in text
@@ -207,7 +207,7 @@ def test_report_html_is_self_contained_with_both_pictures(built):
     parser.feed(html)
     assert "script" not in parser.tags and parser.external == []
     assert parser.tags.count("svg") == 2
-    svgs = [ET.fromstring(s) for s in re.findall(r"<svg .*?</svg>", html, re.S)]
+    svgs = [ET.fromstring(s) for s in re.findall(r"<svg .*?</svg>", html, re.DOTALL)]
     ns = "{http://www.w3.org/2000/svg}"
     t = read_spec(MEMORY_MAP)
     cover = realize(t, "sop")

@@ -6,8 +6,8 @@ import json
 
 from click.testing import CliRunner
 
-from plaforge.cli import cli
 from plaforge.bundled import sample_names, sample_path
+from plaforge.cli import cli
 
 
 def test_demo_writes_and_checks_every_artifact(tmp_path):

@@ -15,15 +15,15 @@ import pytest
 from test_emit_verilog import HAVE_IVERILOG, compare_with_table, run_iverilog
 
 from benchmarks.suite import SUITE
+from plaforge.checking import check_artifact
 from plaforge.core.cube import Cover, Cube
+from plaforge.core.table import Table
 from plaforge.emit.amaranth import module_source
 from plaforge.emit.verilog import verilog_source
 from plaforge.formats import read_spec
 from plaforge.formats.pla import write_pla
 from plaforge.lut import map_luts
 from plaforge.minimize import minimize
-from plaforge.core.table import Table
-from plaforge.checking import check_artifact
 
 SAMPLES = Path(__file__).resolve().parent.parent / "samples"
 LIMIT = 16

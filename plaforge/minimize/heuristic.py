@@ -13,9 +13,10 @@ What the minimizer is fed
 The sets as the rows gave them (:func:`plaforge.core.sets.given_sets`): ON with don't-cares (``.type f``/``fd``:
 intype F|D, the minimizer works out OFF) or ON with OFF (``fr``/``fdr``: F|R, it works out the don't-cares), rows
 with identical input parts merged into one row over all outputs. Nothing is complemented or subtracted in Python on
-the way in, except that ON rows given with don't-care rows are cut by the complement of those (bounded, see
-:meth:`plaforge.core.table.Table.on_pieces`), which the minimizer handles several times faster. Tables whose outputs leave different sets implicit, or the ON set, are fed the separated sets of
-:meth:`plaforge.core.table.Table.cover_sets` instead (F|D). Under the ``per-output`` cost each output is minimized
+the way in, except that ON rows that overlap don't-care rows are also cut by the complement of those (bounded, see
+:meth:`plaforge.core.table.Table.on_pieces`), which the minimizer handles faster on some tables and slower on
+others (see :func:`minimize_heuristic`). Tables whose outputs leave different sets implicit, or the ON set, are fed
+the separated sets of :meth:`plaforge.core.table.Table.cover_sets` instead (F|D). Under the ``per-output`` cost each output is minimized
 alone and identical terms are merged only afterwards.
 
 Column order
@@ -46,9 +47,9 @@ finished result kept (fewer rows, then fewer literals).
   slows the minimizer down (measured: about a tenth for a second minimizer, a fifth for the bound, through the
   shared memory system), so a quick A runs alone and B is kept for the tables where A is slow, which is where a
   different start can gain most (a factor up to 80 in time on wide tables). After the first answer B gets
-  :func:`extra_window` more, :data:`EXTRA_SHARE` of that answer's time beyond :data:`EXTRA_AFTER` seconds; no
-  descent runs. So ``normal`` costs about ``fast`` below a second and at most about 20 % more above it, plus the
-  check.
+  :func:`extra_window` more, :data:`EXTRA_SHARE` of that answer's time beyond :data:`SECOND_AFTER` seconds; no
+  descent runs. So ``normal`` costs about what ``fast`` costs on a table answered within two seconds and, above
+  that, the slowdown a second minimizer causes (about a tenth) plus 5 % of the time beyond the first two seconds.
 
 ``high``: both starts at once on every table, with descents repeated while they help, bounded only by the time
 limit.
@@ -65,7 +66,8 @@ Computed in this process while the starts run (:func:`plaforge.minimize.covering
 :func:`plaforge.minimize.off_bound.off_lower_bound` for ON/OFF tables), for at most :data:`BOUND_SECONDS` on a small
 table. On a large one it gets :data:`BOUND_EARLY` seconds beside A, stopping sooner once a start has answered and
 it has had :data:`BOUND_SHARE` of that answer's time (so it does not delay the answer), and within B's window
-after the first answer (A done) up to :data:`BOUND_SECONDS` more. A greedy bound stopped early is still a bound, only a weaker one.
+after the first answer (A done) up to :data:`BOUND_SECONDS` more. A greedy bound stopped early is still a bound,
+only a weaker one.
 
 Isolation and trust
 -------------------
@@ -80,7 +82,7 @@ from __future__ import annotations
 
 import os
 import time
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 from types import MappingProxyType
 
@@ -104,14 +106,13 @@ SIGNATURE_LIMIT = 16
 #: Above this many inputs the columns are sorted by a key from the rows (the cost of wide tables depends on the
 #: order); at or below it the spec's own order is kept, which the starts were tuned on.
 ORDER_FROM = 16
-#: ``normal`` effort: after the first answer, other starts may run this share of its time more; on a large table
-#: only of the time beyond ``EXTRA_AFTER`` seconds, less the time spent preparing the starts ...
+#: ``normal`` effort: after the first answer, other starts may run this share of its time more (on a large table
+#: only of the time beyond ``SECOND_AFTER`` seconds, less the time spent preparing the starts) ...
 EXTRA_SHARE = 0.05
-EXTRA_AFTER = 1.0
-#: On a large table the second start begins only once the first has run this many seconds without answering.
-SECOND_AFTER = 1.0
 #: ... or, on a small table (:func:`is_small`), this many seconds, descents included.
 EXTRA_FLOOR = 1.0
+#: On a large table the second start begins only once the first has run this many seconds without answering.
+SECOND_AFTER = 2.0
 #: A small table has at most this many inputs ...
 SMALL_INPUTS = 12
 #: ... and at most this many (inputs + outputs) x rows given.
@@ -120,17 +121,17 @@ SMALL_SIZE = 16384
 SPARE = 0.5
 #: Seconds between two looks at the starts while waiting for the first answer.
 POLL = 0.02
-#: Niceness added to the second start on a large table: it runs on what the first start and the lower bound leave
-#: idle, so it never slows them down.
+#: Niceness added to the second start on a large table: it gets only the CPU time the first start and the lower
+#: bound leave idle (it still shares the memory system with them).
 SECOND_NICE = 19
 
 #: Seconds the lower bound may take (computed while the starts run) ...
 BOUND_SECONDS = 0.5
 #: ... on a large table, beside start A ...
 BOUND_EARLY = 0.1
-#: ... except on a large table whose first answer comes before that: the bound then stops once it has had this
-#: share of the answer's time, at least ``BOUND_FLOOR`` seconds (with the starts in child processes it has had it
-#: by the time the answer comes, so it adds nothing to the wall time).
+#: ... stopping sooner once a start has answered and the bound has had this share of the answer's time, at least
+#: ``BOUND_FLOOR`` seconds (with the starts in child processes it has had that by the time the answer comes, so it
+#: adds nothing to the wall time).
 BOUND_SHARE = 0.2
 BOUND_FLOOR = 0.05
 #: Default time limit: at least ``(inputs + outputs) * rows / SCALE_DIVISOR`` seconds.
@@ -440,11 +441,10 @@ def _bound_stop(starts: Sequence[tuple[Job, Isolated | _Done]], t0: float) -> ob
 def extra_window(t_first: float, small: bool, before: float = 0.0) -> float:
     """Seconds the ``normal`` effort gives other starts after the first answer, which took ``t_first`` after
     ``before`` seconds of preparing the starts. On a large table preparing and window together take at most
-    :data:`EXTRA_SHARE` of the time beyond :data:`EXTRA_AFTER` seconds: a first answer within about a second buys
-    no wait (the other start still runs beside it and counts when it answers first)."""
+    :data:`EXTRA_SHARE` of the time beyond :data:`SECOND_AFTER` seconds, when the other start began."""
     if small:
         return max(EXTRA_FLOOR, EXTRA_SHARE * t_first)
-    return max(0.0, EXTRA_SHARE * (t_first - EXTRA_AFTER) - before)
+    return max(0.0, EXTRA_SHARE * (t_first - SECOND_AFTER) - before)
 
 
 def _run_shared(job: Job, second_of: object, bound_of: object, options: MinimizeOptions, limit: float,
@@ -613,11 +613,11 @@ def minimize_heuristic(table: Table, options: MinimizeOptions, inverted: int = 0
                 return None if job.order == first.order else (job, "the rows in the spec's column order")
             second_of = spec_columns
 
-    def bound_of(seconds: float, stop: object) -> int:
+    def bound_of(seconds: float, stop: Callable[[], bool] | None) -> int:
         if kind == "fd":
-            return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, seconds, stop)  # type: ignore[arg-type]
+            return quick_lower_bound(FunctionSets(n, m, ons, others), per_output, seconds, stop)
         # implicit don't-cares: ON points pairwise separated by the OFF rows (nothing complemented)
-        return off_lower_bound(ons, others, n, per_output, seconds, stop)  # type: ignore[arg-type]
+        return off_lower_bound(ons, others, n, per_output, seconds, stop)
 
     per = _per_output_jobs(n, kind, ons, others) if per_output else None
     cubes, bound = _minimized(n, m, first, per, second_of, bound_of, given, options, began)
