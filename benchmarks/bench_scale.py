@@ -8,9 +8,10 @@ Every table is generated from its definition (seeded where random) as PLA text; 
 (``parse_pla``) and minimizes it with its defaults, while the reference, pyeda's low-level
 ``espresso(ninputs, noutputs, rows, intype)``, is given the same rows straight from the text (``.type fr``: ON and
 OFF rows, intype F|R; ``f``/``fd``: ON and don't-care rows, intype F|D), timed in the same run. Printed per table:
-rows (distinct product terms), literals and seconds of both (the fastest of five runs each where the reference takes
-under 5 s: single timings on a shared machine vary by up to a third), plaforge's seconds over the reference's, and
-the seconds plaforge spent reading the text. Every cover, the reference's included, is re-checked against the Table.
+rows (distinct product terms), literals and seconds of both (the median of five runs each, interleaved, where the
+reference takes under 5 s: single timings on this shared machine vary by up to a third either way, and the fastest
+of a few runs rewards whichever side had one lucky run; plaforge's rows and literals are those of its worst run),
+plaforge's seconds over the reference's, and the seconds plaforge spent reading the text. Every cover, the reference's included, is re-checked against the Table.
 
 Aims (printed at the end, met or not): plaforge at most 1.2x the reference's time wherever the reference takes
 more than 0.2 s; rows never above the reference's; the 40-input cube spec under 10 s; the 20-input ON/OFF table
@@ -20,10 +21,11 @@ under 2x the reference's time. ``--slow`` adds the 7x7-bit multiplier (the refer
 from __future__ import annotations
 
 import argparse
+import statistics
 import sys
 import time
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -36,7 +38,7 @@ from plaforge.formats.pla import parse_pla
 from plaforge.minimize import minimize
 from plaforge.minimize.result import verify_cover, verify_given
 
-#: Runs per side on tables where the reference takes under REPEAT_BELOW seconds (the fastest is kept).
+#: Runs per side on tables where the reference takes under REPEAT_BELOW seconds (the median is kept).
 REPEAT = 5
 REPEAT_BELOW = 5.0
 
@@ -275,17 +277,19 @@ def main(argv: list[str] | None = None) -> int:
         t0 = time.perf_counter()
         table = parse_pla(text, f"{name}.pla")
         read = time.perf_counter() - t0
-        # this machine's timings of one and the same run vary by up to a third: each side is timed REPEAT times
-        # (once where the reference takes over REPEAT_BELOW seconds) and its fastest run is kept
-        ref = reference(spec, table)
-        cover = minimize(table)
-        if ref.seconds < REPEAT_BELOW:
+        # this machine's timings of one and the same run vary by up to a third either way: each side is timed
+        # REPEAT times, interleaved (once where the reference takes over REPEAT_BELOW seconds), and the median kept
+        refs = [reference(spec, table)]
+        covers = [minimize(table)]
+        if refs[0].seconds < REPEAT_BELOW:
             for _ in range(REPEAT - 1):
-                again = reference(spec, table)
-                ref = again if again.seconds < ref.seconds else ref
-                other = minimize(table)
-                cover = other if other.seconds < cover.seconds else cover
-        ours = Figure(cover.rows, cover.literals, cover.seconds, _check(table, list(cover.cubes)))
+                refs.append(reference(spec, table))
+                covers.append(minimize(table))
+        ref = replace(refs[0], seconds=statistics.median(r.seconds for r in refs),
+                      checked=all(r.checked for r in refs))
+        worst = max(covers, key=lambda c: (c.rows, c.literals))
+        ours = Figure(worst.rows, worst.literals, statistics.median(c.seconds for c in covers),
+                      all(_check(table, list(c.cubes)) for c in covers))
         ratio = ours.seconds / ref.seconds if ref.seconds > 0 else float("inf")
         print(f"{name:<11}{spec[1]:>3}{spec[2]:>4}{len(spec[3]):>7} | {ref.rows:>8}{ref.literals:>7}"
               f"{ref.seconds:>8.2f} | {ours.rows:>6}{ours.literals:>7}{ours.seconds:>8.2f}{read:>8.2f} | "
