@@ -85,6 +85,7 @@ import time
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 from types import MappingProxyType
+from typing import Any
 
 import numpy as np
 
@@ -150,6 +151,8 @@ MINIMIZER_DEFAULTS: MappingProxyType[str, bool] = MappingProxyType({
 
 #: A row of the compiled minimizer: input part, output part (positional cube notation, see the module docs).
 Row = tuple[tuple[int, ...], tuple[int, ...]]
+#: ``bound_of(seconds, stop)``: a lower bound computed within ``seconds`` or until ``stop()`` is true.
+BoundOf = Callable[[float, "Callable[[], bool] | None"], int]
 
 
 @dataclass(frozen=True)
@@ -162,6 +165,10 @@ class Job:
     kind: str
     rows: frozenset[Row]
     order: tuple[int, ...]
+
+
+#: ``second_of()``: the second start's job and a name for it, or ``None`` when there is none.
+SecondOf = Callable[[], "tuple[Job, str] | None"]
 
 
 def encode_cube(cube: Cube, n: int, order: Sequence[int] | None = None) -> tuple[int, ...]:
@@ -313,18 +320,18 @@ def _per_output(jobs: Sequence[Job], repeat: int) -> list[list[Row]]:
     return [_descend(job, None, repeat) for job in jobs]
 
 
-def _call(fn: object, args: tuple, options: MinimizeOptions, nice: int = 0) -> Isolated | object:
+def _call(fn: Callable[..., Any], args: tuple, options: MinimizeOptions, nice: int = 0) -> Isolated | _Done:
     """Start ``fn(*args)`` in a child process (``nice`` added to its niceness), or run it here when
     ``options.isolate`` is off."""
     if options.isolate:
-        return Isolated(fn, args, "the heuristic minimizer", options.memory_limit, nice)  # type: ignore[arg-type]
-    return _Done(fn(*args))  # type: ignore[operator]
+        return Isolated(fn, args, "the heuristic minimizer", options.memory_limit, nice)
+    return _Done(fn(*args))
 
 
 class _Done:
     """A result computed in this process, with :class:`Isolated`'s waiting interface."""
 
-    def __init__(self, value: object) -> None:
+    def __init__(self, value: Any) -> None:
         self.value = value
 
     def wait(self, timeout: float) -> bool:
@@ -333,7 +340,7 @@ class _Done:
     def ready(self) -> bool:
         return True
 
-    def result(self, timeout: float, limit_note: str = "") -> object:
+    def result(self, timeout: float, limit_note: str = "") -> Any:
         return self.value
 
     def stop(self) -> None:
@@ -361,9 +368,9 @@ def _first_answer(starts: Sequence[tuple[Job, Isolated | _Done]], deadline: floa
             pending = starts[k][1]
             if pending.wait(0):
                 if k == 0:
-                    return 0, pending.result(0, note)  # type: ignore[return-value]
+                    return 0, pending.result(0, note)
                 try:
-                    return k, pending.result(0)  # type: ignore[return-value]
+                    return k, pending.result(0)
                 except (InternalError, SizeLimit, TimeLimit):
                     alive.remove(k)
     raise TimeLimit(f"the heuristic minimizer did not finish within {limit:g} s{note}", "--time-limit")
@@ -422,7 +429,7 @@ def _wait_any(starts: Sequence[tuple[Job, Isolated | _Done]], until: float) -> b
         starts[0][1].wait(min(POLL, left))
 
 
-def _bound_stop(starts: Sequence[tuple[Job, Isolated | _Done]], t0: float) -> object:
+def _bound_stop(starts: Sequence[tuple[Job, Isolated | _Done]], t0: float) -> Callable[[], bool]:
     """``stop()`` for a lower bound computed while the starts (begun at ``t0``) run on a large table: true once a
     start has answered and the bound has had :data:`BOUND_SHARE` of that answer's time (at least
     :data:`BOUND_FLOOR` seconds)."""
@@ -447,7 +454,7 @@ def extra_window(t_first: float, small: bool, before: float = 0.0) -> float:
     return max(0.0, EXTRA_SHARE * (t_first - SECOND_AFTER) - before)
 
 
-def _run_shared(job: Job, second_of: object, bound_of: object, options: MinimizeOptions, limit: float,
+def _run_shared(job: Job, second_of: SecondOf, bound_of: BoundOf, options: MinimizeOptions, limit: float,
                 note: str, progress: Progress, began: float) -> tuple[Job, list[Row], int]:
     """Start A (and a second start, ``second_of()`` built while A runs), then descents, as ``options.effort``
     allows (module docs); the best result with the job it answers (their column orders differ) and the lower bound
@@ -463,16 +470,16 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
         # start A (parallel work slows A down on a shared memory system) and a second start only once A has run
         # SECOND_AFTER seconds without answering
         at_once = effort == "high" or (effort == "normal" and small)
-        second = second_of() if at_once else None  # type: ignore[operator]
+        second = second_of() if at_once else None
         if second is not None:
             starts.append((second[0], _call(_descend, (second[0], None, 0), options)))
         progress.stage("start A: the rows as given" + (f", start B: {second[1]}" if second else ""))
         if at_once or small:
-            bound = bound_of(BOUND_SECONDS, None)  # type: ignore[operator]
+            bound = bound_of(BOUND_SECONDS, None)
         else:
-            bound = bound_of(BOUND_EARLY, _bound_stop(starts, t0))  # type: ignore[operator]
+            bound = bound_of(BOUND_EARLY, _bound_stop(starts, t0))
             if effort == "normal" and not _wait_any(starts, min(deadline, t0 + SECOND_AFTER)) and spare_core():
-                second = second_of()  # type: ignore[operator]
+                second = second_of()
                 if second is not None:
                     starts.append((second[0], _call(_descend, (second[0], None, 0), options, SECOND_NICE)))
                     progress.stage(f"start A has run {SECOND_AFTER:g} s: start B, {second[1]}")
@@ -487,11 +494,11 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
         others = [(j, pending) for k, (j, pending) in enumerate(starts) if k != first]
         if not (at_once or small) and others and window > 0:
             # the other start's window: the bound may use this core meanwhile (A is done, nothing to slow down)
-            bound = max(bound, bound_of(min(BOUND_SECONDS, window), None))  # type: ignore[operator]
+            bound = max(bound, bound_of(min(BOUND_SECONDS, window), None))
         for j, pending in others:
             if pending.wait(extra_end - time.monotonic()):
                 try:
-                    results.append((j, pending.result(0)))  # type: ignore[arg-type]
+                    results.append((j, pending.result(0)))
                     progress.update(rows_b=len(results[-1][1]))
                 except (InternalError, SizeLimit, TimeLimit):
                     pass
@@ -502,11 +509,11 @@ def _run_shared(job: Job, second_of: object, bound_of: object, options: Minimize
                         if time.monotonic() < extra_end]
             progress.stage("one more descent from each result" if effort == "normal" else "descents while they help")
             for j, d in descents:
-                if d.wait(extra_end - time.monotonic()):  # type: ignore[union-attr]
-                    results.append((j, d.result(0)))  # type: ignore[union-attr]
+                if d.wait(extra_end - time.monotonic()):
+                    results.append((j, d.result(0)))
                     progress.update(rows_descent=len(results[-1][1]))
                 else:
-                    d.stop()  # type: ignore[union-attr]
+                    d.stop()
     finally:
         for _, pending in starts:
             pending.stop()
@@ -525,8 +532,8 @@ def _decode(job: Job, rows: Sequence[Row], output: int | None = None) -> list[Cu
     return cubes
 
 
-def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, second_of: object,
-               bound_of: object, given: int, options: MinimizeOptions, began: float) -> tuple[list[Cube], int]:
+def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, second_of: SecondOf,
+               bound_of: BoundOf, given: int, options: MinimizeOptions, began: float) -> tuple[list[Cube], int]:
     """The best cover found and the lower bound (``bound_of()``, computed while the first start runs);
     ``second_of()`` gives the second start's job and its name, or ``None``."""
     limit, note = time_limit(options, n, m, given)
@@ -535,20 +542,21 @@ def _minimized(n: int, m: int, first: Job, per_output: list[Job] | None, second_
         if per_output is not None:
             repeat = 0 if options.effort == "fast" else 1 if options.effort == "normal" else 1 << 20
             run = _call(_per_output, (per_output, repeat), options)
-            bound = bound_of(BOUND_SECONDS, None)  # type: ignore[operator]
-            res = run.result(limit, note)  # type: ignore[union-attr]
+            bound = bound_of(BOUND_SECONDS, None)
+            res = run.result(limit, note)
             return sort_cubes(merge_identical(c for k, (job, rows) in enumerate(zip(per_output, res))
                                               for c in _decode(job, rows, k))), bound
         job, rows, bound = _run_shared(first, second_of, bound_of, options, limit, note, progress, began)
     return sort_cubes(merge_identical(_decode(job, rows))), bound
 
 
-def _signature_start(n: int, m: int, regions_of: object) -> object:
+def _signature_start(n: int, m: int, regions_of: Callable[[], Sequence[tuple[int, int, tuple[Cube, ...]]]]
+                     ) -> SecondOf:
     """``second_of`` for start B, the signature regions (small tables only, see :data:`SIGNATURE_LIMIT`)."""
     def second_of() -> tuple[Job, str] | None:
         if n > SIGNATURE_LIMIT or m > 64:
             return None
-        return signature_job(n, m, regions_of(), tuple(range(n))), "signature regions"  # type: ignore[operator]
+        return signature_job(n, m, regions_of(), tuple(range(n))), "signature regions"
     return second_of
 
 
