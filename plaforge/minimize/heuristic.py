@@ -209,14 +209,9 @@ def bit_matrix(masks: Sequence[int], width: int) -> np.ndarray:
     return bits[:, :width].astype(bool)
 
 
-def column_order(n: int, cubes: Sequence[Cube]) -> tuple[int, ...]:
-    """Inputs tested by more cubes first, then inputs more often tested at 1, then spec order."""
-    care = bit_matrix([c.care for c in cubes], n)
-    value = bit_matrix([c.value for c in cubes], n)
-    return _sorted_columns(care, value)
-
-
 def _sorted_columns(care: np.ndarray, value: np.ndarray) -> tuple[int, ...]:
+    """Column order from the rows' bit matrices: inputs tested by more rows first, then inputs more often tested
+    at 1, then spec order."""
     cares, ones = care.sum(axis=0).tolist(), value.sum(axis=0).tolist()
     return tuple(sorted(range(care.shape[1]), key=lambda i: (-cares[i], -ones[i], i)))
 
