@@ -12,7 +12,7 @@ from ..core.errors import CheckFailed
 from ..flow import BuildOptions, build
 from ..formats import read_spec
 from ..report import build_report
-from .group import cli
+from .group import cli, jobs_option
 from .outcomes import echo_outcomes
 
 
@@ -45,9 +45,7 @@ from .outcomes import echo_outcomes
 @click.option("--registered", is_flag=True,
               help="Register every output of the modules and Verilog in a clocked stage (ports clk and rst); their "
                    "checks prove the logic with a one-cycle delay.")
-@click.option("-j", "--jobs", "jobs", type=click.IntRange(min=1), default=None,
-              help="Worker processes for several specs [default: the machine's core count]; 1 builds them one "
-              "after another in this process.")
+@jobs_option("builds")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object and nothing else (a list of them for "
               "several specs).")
 def build_cmd(spec: tuple[str, ...], jobs: int | None, out: str, k: int, exact: bool, cost: str, time_limit: float, effort: str,

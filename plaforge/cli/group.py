@@ -56,6 +56,14 @@ def cli() -> None:
     """
 
 
+def jobs_option(verb: str) -> Any:
+    """The ``-j/--jobs`` option of every command that takes several specs; ``verb`` says what a worker does to a
+    spec ("builds", "minimizes", "maps")."""
+    return click.option("-j", "--jobs", "jobs", type=click.IntRange(min=1), default=None,
+                        help=f"Worker processes for several specs [default: the machine's core count]; 1 {verb} them "
+                        "one after another in this process.")
+
+
 def main(argv: list[str] | None = None) -> None:
     cli.main(args=argv, prog_name="plaforge")
 

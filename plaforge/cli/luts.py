@@ -7,7 +7,7 @@ import os
 
 import click
 
-from .group import cli
+from .group import cli, jobs_option
 
 
 @cli.command("luts")
@@ -36,9 +36,7 @@ from .group import cli
 @click.option("--time-limit", "time_limit", type=click.FloatRange(min=0, min_open=True), default=None,
               help="Seconds for the mapping; past them the rest is mapped the quick way (exit 3 only if even that "
                    "cannot finish).")
-@click.option("-j", "--jobs", "jobs", type=click.IntRange(min=1), default=None,
-              help="Worker processes for several specs [default: the machine's core count]; 1 maps them one after "
-                   "another in this process.")
+@jobs_option("maps")
 def luts_cmd(spec: tuple[str, ...], k: int, out: str | None, as_json: bool, init_format: str, pad: bool,
              c_header_path: str | None, verilog_path: str | None, design: str | None, objective: str,
              time_limit: float | None, jobs: int | None) -> None:

@@ -8,7 +8,7 @@ import sys
 
 import click
 
-from .group import cli
+from .group import cli, jobs_option
 
 
 @cli.command("minimize")
@@ -37,9 +37,7 @@ from .group import cli
               "file); exit 1 when it does not.")
 @click.option("--name", "name", help="Design name written in the cover's header and the JSON [default: the spec's "
               "[design] name, else its file name without the extension]. One spec only.")
-@click.option("-j", "--jobs", "jobs", type=click.IntRange(min=1), default=None,
-              help="Worker processes for several specs [default: the machine's core count]; 1 minimizes them one "
-              "after another in this process.")
+@jobs_option("minimizes")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object with the figures and nothing else (a "
               "list of them for several specs).")
 def minimize_cmd(spec: tuple[str, ...], out: str | None, exact: bool, time_limit: float, memory_limit: int,

@@ -75,9 +75,7 @@ def _given_points_check(gs: GivenSets, cubes: Sequence[Cube]) -> str | None:
             low = outs & -outs
             feeding[low.bit_length() - 1].append(c)
             outs ^= low
-    valid = np.full(max(1, (1 << n) >> 6), np.uint64(0xFFFFFFFFFFFFFFFF), dtype=np.uint64)
-    if n < 6:
-        valid[0] = np.uint64((1 << (1 << n)) - 1)
+    valid = cubes_bits([Cube(0, 0)], n)  # every point
     for j in range(gs.m):
         on, other, got = cubes_bits(gs.on[j], n), cubes_bits(gs.other[j], n), cubes_bits(feeding[j], n)
         dc = other if gs.kind == "fd" else valid & ~(on | other)
